@@ -1,0 +1,2 @@
+//! The `foilsweep` command line (being written).
+fn main() {}

@@ -1,0 +1,2 @@
+//! (being written; see DEVELOPERS.md for this crate's contract)
+#![warn(missing_docs)]
