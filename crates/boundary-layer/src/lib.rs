@@ -1,4 +1,34 @@
-//! (being written; see DEVELOPERS.md for this crate's contract)
+//! Integral boundary-layer methods for 2D incompressible flow: closure relations, a direct
+//! (edge-speed-given) march with transition and laminar-separation-bubble estimates, and the
+//! residual form of the interacting equations that a coupling Newton solver drives.
+//!
+//! **Does not** know about panels, airfoils or files: inputs are plain arrays of arc length s
+//! (from the stagnation point), edge speed ue ≥ 0 and x/c per station, in chord units with
+//! V∞ = 1 and ν = 1/Re.
+//!
+//! Main pieces:
+//! - [`closure`]: pure closure functions — Thwaites (1949) l(λ), H(λ); the two-equation laminar
+//!   closure of Drela & Giles (1987) valid in reversed flow; Head (1958) entrainment;
+//!   Green, Weeks & Brooman (1973) lag-entrainment; the e^N envelope of Drela & Giles (1987) and
+//!   Mack's (1977) N_crit(Tu).
+//! - [`direct`]: the fast **non-interacting estimate** — Thwaites from the stagnation point,
+//!   e^N, Horton's (1968) bubble model at laminar separation, lag-entrainment (or Head) turbulent
+//!   layer, the wake and Squire–Young drag. `direct::march_surface` → `SurfaceMarch`.
+//! - [`state`]: per-station results ([`state::StationState`], [`state::Regime`]) and events
+//!   ([`state::Event`]) shared by all marches.
+//! - [`error::BoundaryLayerError`]: every bad input and failure, with the station index.
+//!
+//! Governing equations (s along the surface, ue edge speed, θ momentum thickness, H = δ*/θ):
+//! momentum integral dθ/ds = cf/2 − (2 + H)(θ/ue) due/ds (von Kármán); kinetic-energy integral
+//! θ dH*/ds + H*(1 − H)(θ/ue) due/ds = 2C_D − H* cf/2; entrainment (1/ue) d(ue θ H1)/ds = C_E.
+//!
+//! Invariants: no panics on bad input (errors carry the station index); skin friction is based on
+//! the local edge speed; every clamp applied by a closure outside its calibrated range is
+//! documented on the function, and every regime change in a march is reported as an event.
 #![warn(missing_docs)]
 
+pub mod closure;
+pub mod error;
 pub mod state;
+
+pub use error::BoundaryLayerError;

@@ -1,0 +1,75 @@
+//! Closure relations of the integral boundary-layer methods: pure functions of the local
+//! integral state (shape factor H, momentum-thickness Reynolds number Re_θ, …), each citing its
+//! source and equation beside it.
+//!
+//! | module | method | used by |
+//! |---|---|---|
+//! | [`thwaites`] | Thwaites (1949) one-parameter laminar closure l(λ), H(λ) (Cebeci & Bradshaw 1977 fits) | direct march, attached laminar |
+//! | [`laminar`] | two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ) (Drela & Giles 1987), valid in reversed flow | interacting solver |
+//! | [`head`] | Head (1958) entrainment closure H1(H), F(H1) and Ludwieg & Tillmann (1949) cf | direct march (option) |
+//! | [`lag_entrainment`] | Green, Weeks & Brooman (1973) lag-entrainment closure, incompressible, boundary layer and wake | direct march (default), wake, interacting solver |
+//! | [`transition`] | Drela & Giles (1987) e^N envelope, Mack (1977) N_crit(Tu) | all marches |
+//!
+//! Conventions: all quantities are dimensionless unless stated; `h` is the shape factor
+//! H = δ*/θ (the kinematic shape factor in incompressible flow); `re_theta` = ue θ/ν; skin friction
+//! is based on the local edge speed, cf = τw/(½ρ ue²).
+//!
+//! Guards: the published fits have poles (at H = 1, at Re_θ ≈ 10, …) outside the range where
+//! they were calibrated. Each function documents how it keeps its arguments away from a pole; the
+//! guards use [`smooth_floor`], which is the identity above a threshold and joins an exponential
+//! tail with a continuous first derivative below it, so functions stay C¹ for Newton solvers and
+//! never return NaN for finite input.
+
+pub mod head;
+pub mod lag_entrainment;
+pub mod laminar;
+pub mod thwaites;
+pub mod transition;
+
+/// C¹ lower bound: returns `x` for `x ≥ floor + width`, and below that
+/// `floor + width·exp((x − floor − width)/width)`, which joins with value and slope 1 and tends to
+/// `floor` (never reaching it) as `x → −∞`. Requires `width > 0`.
+pub(crate) fn smooth_floor(x: f64, floor: f64, width: f64) -> f64 {
+    let knee = floor + width;
+    if x >= knee {
+        x
+    } else {
+        floor + width * ((x - knee) / width).exp()
+    }
+}
+
+/// Smallest shape factor the laminar and turbulent fits are evaluated at: arguments below
+/// `SHAPE_FACTOR_FLOOR + SHAPE_FACTOR_GUARD_WIDTH` are passed through [`smooth_floor`].
+/// H = 1 is the physical lower limit (a plug profile); the fits have poles there.
+pub(crate) const SHAPE_FACTOR_FLOOR: f64 = 1.05;
+/// Width of the C¹ guard above [`SHAPE_FACTOR_FLOOR`].
+pub(crate) const SHAPE_FACTOR_GUARD_WIDTH: f64 = 0.05;
+
+/// Shape factor with the C¹ guard against H ≤ 1 applied (identity for H ≥ 1.1).
+pub(crate) fn guarded_shape_factor(h: f64) -> f64 {
+    smooth_floor(h, SHAPE_FACTOR_FLOOR, SHAPE_FACTOR_GUARD_WIDTH)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn smooth_floor_is_c1_and_bounded() {
+        // identity above the knee
+        assert_eq!(smooth_floor(2.0, 1.0, 0.1), 2.0);
+        // value and slope continuous at the knee (finite differences, step 1e-7)
+        let knee = 1.1;
+        let d = 1e-7;
+        assert_relative_eq!(smooth_floor(knee - d, 1.0, 0.1), knee - d, epsilon = 1e-12);
+        let slope = (smooth_floor(knee, 1.0, 0.1) - smooth_floor(knee - d, 1.0, 0.1)) / d;
+        assert_relative_eq!(slope, 1.0, epsilon = 1e-5);
+        // never below the floor, never NaN
+        for x in [-1e300, -10.0, 0.0, 1.0, 1.05] {
+            let y = smooth_floor(x, 1.0, 0.1);
+            assert!(y > 1.0 || (x < -1.0 && y >= 1.0), "x = {x}, y = {y}");
+            assert!(y.is_finite());
+        }
+    }
+}
