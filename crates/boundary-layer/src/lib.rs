@@ -28,7 +28,10 @@
 #![warn(missing_docs)]
 
 pub mod closure;
+pub mod direct;
 pub mod error;
+pub mod falkner_skan;
 pub mod state;
+pub mod thwaites;
 
 pub use error::BoundaryLayerError;

@@ -55,6 +55,12 @@ pub fn entrainment_shape_factor(h: f64) -> f64 {
     entrainment_shape_factor_and_slope(h).0
 }
 
+/// dH1/dH of [`entrainment_shape_factor`] (on the guarded argument; always negative; the
+/// one-sided value of the lower branch at H = 1.6).
+pub fn entrainment_shape_factor_slope(h: f64) -> f64 {
+    entrainment_shape_factor_and_slope(h).1
+}
+
 /// Inverse of [`entrainment_shape_factor`]: the shape factor H with H1(H) = `h1`, found by a
 /// bracketed Newton iteration on the forward fit so that the pair is consistent to 1e-12 (the
 /// published explicit inverse is only good to ≈ 1e-3). Within the 0.4 % gap of the fit at
