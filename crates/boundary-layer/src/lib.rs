@@ -29,8 +29,10 @@
 
 pub mod closure;
 pub mod direct;
+pub mod equations;
 pub mod error;
 pub mod falkner_skan;
+pub mod interaction;
 pub mod state;
 pub mod thwaites;
 

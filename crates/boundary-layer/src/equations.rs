@@ -1,0 +1,410 @@
+//! Discrete residuals of the interacting integral boundary-layer equations.
+//!
+//! Every station carries three unknowns: the momentum thickness θ, the mass defect
+//! m = ue·δ* (the displacement effect fed back to the inviscid flow, Lighthill 1958) and a
+//! third variable `c` that is the e^N amplification factor N in laminar flow and the
+//! entrainment coefficient C_E in turbulent flow and the wake. The edge speed ue at a station
+//! is not an unknown of its own here: the caller supplies it (in the coupled solve it is
+//! ue = ue_inviscid + D·m).
+//!
+//! Equations per interval between an upstream station 1 and a downstream station 2, each in a
+//! dimensionless, logarithmic trapezoidal form so that large ratios of θ or ue stay well scaled:
+//!
+//! * momentum integral (von Kármán): `ln(θ2/θ1) + (2 + H̄) ln(ue2/ue1) − Δs·avg(cf/(2θ)) = 0`;
+//! * laminar: kinetic-energy integral in shape-factor form (e.g. White 2006, eq. 4-…;
+//!   Drela & Giles 1987 for its use through reversed flow)
+//!   `ln(H*2/H*1) + (1 − H̄) ln(ue2/ue1) − Δs·avg((2 C_D/H* − cf/2)/θ) = 0`, with the
+//!   two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ);
+//!   amplification `N2 − N1 − Δs·avg(dN/ds) = 0` (envelope e^N, Drela & Giles 1987);
+//! * turbulent and wake: Head's (1958) entrainment equation with the lag-entrainment
+//!   closure of Green, Weeks & Brooman (1973):
+//!   `[ue2 θ2 H1_2 − ue1 θ1 H1_1 − Δs·avg(ue C_E)] / avg(ue θ) = 0` and the lag equation
+//!   `C_E2 − C_E1 − Δs·avg(θ dC_E/ds / θ) = 0`; cf = 0 in the wake;
+//! * transition inside an interval: the interval is split at the transition point T, whose
+//!   state is interpolated linearly in s between the two stations; the laminar equations hold
+//!   from 1 to T and the turbulent ones from T to 2, and the two parts are added (momentum and
+//!   shape equations) so the residual changes continuously as T moves through the interval.
+//!   C_E at T starts at a fixed fraction of its equilibrium value.
+//!
+//! What this module does not do: choose which intervals are laminar or turbulent, locate the
+//! stagnation point, or solve anything (see [`crate::interaction`]).
+
+use crate::closure::{lag_entrainment, laminar, transition};
+
+/// Shape factor below which the closures are not evaluated (profiles thinner than this do not
+/// exist in attached or separated flow; guards the Newton iterates only).
+pub const MIN_SHAPE_FACTOR: f64 = 1.02;
+/// Smallest entrainment coefficient used by the closures (guards the Newton iterates only).
+pub const MIN_ENTRAINMENT: f64 = 1.0e-6;
+/// Smallest edge speed used in logarithms (guards iterates near the stagnation point).
+pub const MIN_EDGE_VELOCITY: f64 = 1.0e-6;
+/// Shape factor of the Hiemenz stagnation-point similarity solution (Hiemenz 1911; exact
+/// value 2.2162, see `tests/data/falkner_skan_integrals.csv`).
+pub const STAGNATION_SHAPE_FACTOR: f64 = 2.2162;
+/// Thwaites's stagnation-point value of λ = (θ²/ν) due/ds (Thwaites 1949): θ² = 0.075 ν s/ue.
+pub const STAGNATION_LAMBDA: f64 = 0.075;
+/// Shape factor of the Blasius flat-plate solution (Blasius 1908).
+pub const BLASIUS_SHAPE_FACTOR: f64 = 2.5911;
+/// Blasius momentum-thickness constant θ·√(ue s/ν)/s (Blasius 1908).
+pub const BLASIUS_THETA: f64 = 0.6641;
+
+/// Largest shape factor at which the starting entrainment of a turbulent layer is evaluated.
+pub const MAX_START_SHAPE_FACTOR: f64 = 6.0;
+
+/// Values at one station as seen by the residuals.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Point {
+    /// Arc length s.
+    pub arc_length: f64,
+    /// Momentum thickness θ.
+    pub theta: f64,
+    /// Mass defect m = ue·δ*.
+    pub mass_defect: f64,
+    /// Amplification N (laminar) or entrainment coefficient C_E (turbulent, wake).
+    pub third: f64,
+    /// Edge speed ue.
+    pub edge_velocity: f64,
+}
+
+impl Point {
+    /// Edge speed guarded away from zero.
+    pub fn ue(&self) -> f64 {
+        self.edge_velocity.max(MIN_EDGE_VELOCITY)
+    }
+    /// Displacement thickness δ* = m/ue.
+    pub fn displacement_thickness(&self) -> f64 {
+        self.mass_defect / self.ue()
+    }
+    /// Shape factor H = δ*/θ, guarded below by [`MIN_SHAPE_FACTOR`].
+    pub fn shape_factor(&self) -> f64 {
+        (self.displacement_thickness() / self.theta).max(MIN_SHAPE_FACTOR)
+    }
+    /// Momentum-thickness Reynolds number ue·θ·Re (lengths and speeds in chord and V∞ units).
+    pub fn re_theta(&self, reynolds: f64) -> f64 {
+        (self.ue() * self.theta * reynolds).max(1.0)
+    }
+}
+
+/// Settings the residuals need.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct EquationSettings {
+    /// Reynolds number on the reference length and speed (ν = 1/reynolds).
+    pub reynolds: f64,
+    /// Critical amplification N_crit.
+    pub critical_n: f64,
+    /// C_E at the start of turbulent flow as a fraction of its equilibrium value.
+    pub transition_entrainment_fraction: f64,
+}
+
+/// Local closure values of a laminar station.
+struct LaminarLocal {
+    h: f64,
+    h_star: f64,
+    cf_over_2theta: f64,
+    shape_source: f64,
+    amplification_rate: f64,
+}
+
+fn laminar_local(p: &Point, settings: &EquationSettings) -> LaminarLocal {
+    let h = p.shape_factor();
+    let re_theta = p.re_theta(settings.reynolds);
+    let cf = laminar::skin_friction(h, re_theta);
+    let cd = laminar::dissipation(h, re_theta);
+    let h_star = laminar::energy_shape_factor(h);
+    LaminarLocal {
+        h,
+        h_star,
+        cf_over_2theta: cf / (2.0 * p.theta),
+        shape_source: (2.0 * cd / h_star - 0.5 * cf) / p.theta,
+        amplification_rate: transition::amplification_rate(h, p.theta, re_theta),
+    }
+}
+
+/// Local closure values of a turbulent or wake station.
+struct TurbulentLocal {
+    h: f64,
+    h1: f64,
+    cf_over_2theta: f64,
+    entrainment_source: f64,
+}
+
+fn turbulent_local(p: &Point, settings: &EquationSettings, wake: bool) -> TurbulentLocal {
+    let h = p.shape_factor();
+    let re_theta = p.re_theta(settings.reynolds);
+    let cf = if wake {
+        0.0
+    } else {
+        lag_entrainment::skin_friction(h, re_theta)
+    };
+    let h1 = lag_entrainment::entrainment_shape_factor(h);
+    let ce = p.third.max(MIN_ENTRAINMENT);
+    TurbulentLocal {
+        h,
+        h1,
+        cf_over_2theta: cf / (2.0 * p.theta),
+        entrainment_source: ce,
+    }
+}
+
+/// Lag-equation rate dC_E/ds at a station, with the pressure gradient (θ/ue) due/ds taken from
+/// the interval's edge-speed difference.
+fn lag_rate_per_length(p: &Point, settings: &EquationSettings, due_ds: f64, wake: bool) -> f64 {
+    let h = p.shape_factor();
+    let re_theta = p.re_theta(settings.reynolds);
+    let pressure_gradient = p.theta / p.ue() * due_ds;
+    lag_entrainment::lag_rate(
+        h,
+        p.third.max(MIN_ENTRAINMENT),
+        re_theta,
+        pressure_gradient,
+        wake,
+    ) / p.theta
+}
+
+/// Residuals of a laminar interval from `p1` to `p2` (third variable N).
+pub fn laminar_interval(p1: &Point, p2: &Point, settings: &EquationSettings) -> [f64; 3] {
+    let ds = p2.arc_length - p1.arc_length;
+    let a = laminar_local(p1, settings);
+    let b = laminar_local(p2, settings);
+    let log_ue = (p2.ue() / p1.ue()).ln();
+    let h_mean = 0.5 * (a.h + b.h);
+    [
+        (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
+            - ds * 0.5 * (a.cf_over_2theta + b.cf_over_2theta),
+        (b.h_star / a.h_star).ln() + (1.0 - h_mean) * log_ue
+            - ds * 0.5 * (a.shape_source + b.shape_source),
+        p2.third - p1.third - ds * 0.5 * (a.amplification_rate + b.amplification_rate),
+    ]
+}
+
+/// Residuals of a turbulent (or wake, `wake = true`) interval from `p1` to `p2`
+/// (third variable C_E).
+pub fn turbulent_interval(
+    p1: &Point,
+    p2: &Point,
+    settings: &EquationSettings,
+    wake: bool,
+) -> [f64; 3] {
+    let ds = p2.arc_length - p1.arc_length;
+    let a = turbulent_local(p1, settings, wake);
+    let b = turbulent_local(p2, settings, wake);
+    let log_ue = (p2.ue() / p1.ue()).ln();
+    let h_mean = 0.5 * (a.h + b.h);
+    let scale = 0.5 * (p1.ue() * p1.theta + p2.ue() * p2.theta);
+    let due_ds = if ds > 0.0 {
+        (p2.ue() - p1.ue()) / ds
+    } else {
+        0.0
+    };
+    [
+        (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
+            - ds * 0.5 * (a.cf_over_2theta + b.cf_over_2theta),
+        // Difference form scaled by the mean ue·θ (> 0): stays defined where H1 ≤ 0 (H ≳ 19).
+        (p2.ue() * p2.theta * b.h1 - p1.ue() * p1.theta * a.h1) / scale
+            - ds * 0.5 * (p1.ue() * a.entrainment_source + p2.ue() * b.entrainment_source) / scale,
+        p2.third
+            - p1.third
+            - ds * 0.5
+                * (lag_rate_per_length(p1, settings, due_ds, wake)
+                    + lag_rate_per_length(p2, settings, due_ds, wake)),
+    ]
+}
+
+/// Entrainment coefficient at the start of turbulent flow for a layer with the given state.
+///
+/// The equilibrium value is taken at min(H, [`MAX_START_SHAPE_FACTOR`]): the lag-entrainment
+/// closure is calibrated only for moderate H, and a laminar shear layer can reach H ≈ 10–20 before
+/// it transitions; the lag equation then carries C_E to its own level.
+pub fn starting_entrainment(p: &Point, settings: &EquationSettings) -> f64 {
+    let h = p.shape_factor().min(MAX_START_SHAPE_FACTOR);
+    let re_theta = p.re_theta(settings.reynolds);
+    (settings.transition_entrainment_fraction
+        * lag_entrainment::equilibrium_entrainment(h, re_theta))
+    .max(MIN_ENTRAINMENT)
+}
+
+/// Linear interpolation of a station state at fraction `f` of the interval (third variable
+/// left at `third`).
+fn interpolate(p1: &Point, p2: &Point, f: f64, third: f64) -> Point {
+    let lerp = |a: f64, b: f64| a + f * (b - a);
+    let ue = lerp(p1.ue(), p2.ue());
+    let dstar = lerp(p1.displacement_thickness(), p2.displacement_thickness());
+    Point {
+        arc_length: lerp(p1.arc_length, p2.arc_length),
+        theta: lerp(p1.theta, p2.theta),
+        mass_defect: ue * dstar,
+        third,
+        edge_velocity: ue,
+    }
+}
+
+/// Where transition happens in an interval whose upstream station is laminar.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct TransitionPoint {
+    /// Fraction of the interval (0 at the upstream station, 1 at the downstream one).
+    pub fraction: f64,
+    /// True when a trip forced it before the e^N criterion.
+    pub forced: bool,
+}
+
+/// Locates transition in the interval `p1 → p2` if it happens there.
+///
+/// `p1` is laminar (third = N). The downstream state `p2` is evaluated as laminar for the
+/// amplification rate (its third variable is ignored). Natural transition is where the
+/// trapezoidal integral of dN/ds from p1 to the interpolated point reaches N_crit (solved by a
+/// few fixed-point steps, so the location moves continuously with the states); a trip at
+/// `trip_arc_length` wins when it comes first. Returns `None` when the interval stays laminar.
+pub fn locate_transition(
+    p1: &Point,
+    p2: &Point,
+    settings: &EquationSettings,
+    trip_arc_length: Option<f64>,
+) -> Option<TransitionPoint> {
+    let ds = p2.arc_length - p1.arc_length;
+    let trip_fraction = trip_arc_length
+        .filter(|&s| s > p1.arc_length && s <= p2.arc_length)
+        .map(|s| (s - p1.arc_length) / ds);
+    let rate1 = laminar_local(p1, settings).amplification_rate;
+    let n_at = |f: f64| {
+        let t = interpolate(p1, p2, f, 0.0);
+        let rate_t = laminar_local(&t, settings).amplification_rate;
+        p1.third + f * ds * 0.5 * (rate1 + rate_t)
+    };
+    let natural = if n_at(1.0) >= settings.critical_n && p1.third < settings.critical_n {
+        // Secant/bisection hybrid on f in [0, 1]: n_at is monotone in practice (rates ≥ 0).
+        let (mut lo, mut hi) = (0.0_f64, 1.0_f64);
+        let (mut n_lo, mut n_hi) = (p1.third, n_at(1.0));
+        let mut f = 1.0;
+        for _ in 0..30 {
+            f = lo + (settings.critical_n - n_lo) / (n_hi - n_lo).max(1e-300) * (hi - lo);
+            f = f.clamp(lo + 0.01 * (hi - lo), hi - 0.01 * (hi - lo));
+            let n_f = n_at(f);
+            if (n_f - settings.critical_n).abs() < 1e-10 {
+                break;
+            }
+            if n_f < settings.critical_n {
+                lo = f;
+                n_lo = n_f;
+            } else {
+                hi = f;
+                n_hi = n_f;
+            }
+            if hi - lo < 1e-10 {
+                break;
+            }
+        }
+        Some(f)
+    } else if p1.third >= settings.critical_n {
+        Some(0.0)
+    } else {
+        None
+    };
+    match (natural, trip_fraction) {
+        (Some(f), Some(t)) if t < f => Some(TransitionPoint {
+            fraction: t,
+            forced: true,
+        }),
+        (Some(f), _) => Some(TransitionPoint {
+            fraction: f,
+            forced: false,
+        }),
+        (None, Some(t)) => Some(TransitionPoint {
+            fraction: t,
+            forced: true,
+        }),
+        (None, None) => None,
+    }
+}
+
+/// Residuals of an interval that contains transition at `point`: laminar from `p1` (third = N)
+/// to T, turbulent from T to `p2` (third = C_E).
+pub fn transition_interval(
+    p1: &Point,
+    p2: &Point,
+    point: TransitionPoint,
+    settings: &EquationSettings,
+) -> [f64; 3] {
+    let f = point.fraction.clamp(0.0, 1.0);
+    let mut t = interpolate(p1, p2, f, settings.critical_n);
+    // Laminar part 1 → T (only when it has length; its third residual is not used because N at
+    // T is N_crit by construction).
+    let lam = if f > 0.0 {
+        laminar_interval(p1, &t, settings)
+    } else {
+        [0.0; 3]
+    };
+    t.third = starting_entrainment(&t, settings);
+    let turb = if f < 1.0 {
+        turbulent_interval(&t, p2, settings, false)
+    } else {
+        [0.0; 3]
+    };
+    [
+        lam[0] + turb[0],
+        lam[1] + turb[1],
+        if f < 1.0 { turb[2] } else { p2.third - t.third },
+    ]
+}
+
+/// How the first station of a surface starts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SurfaceStart {
+    /// Stagnation-point (Hiemenz) flow: ue ≈ K s near s = 0.
+    Stagnation,
+    /// Sharp flat-plate leading edge (Blasius) with finite ue at s = 0.
+    FlatPlate,
+}
+
+/// Residuals fixing the first station of a surface from similarity: Thwaites's stagnation
+/// value θ² = 0.075 ν s/ue with the Hiemenz shape factor, or the Blasius values, and N = 0.
+pub fn surface_start(p: &Point, start: SurfaceStart, settings: &EquationSettings) -> [f64; 3] {
+    let nu = 1.0 / settings.reynolds;
+    let (theta_target, h_target) = match start {
+        SurfaceStart::Stagnation => (
+            (STAGNATION_LAMBDA * nu * p.arc_length / p.ue()).sqrt(),
+            STAGNATION_SHAPE_FACTOR,
+        ),
+        SurfaceStart::FlatPlate => (
+            BLASIUS_THETA * (nu * p.arc_length / p.ue()).sqrt(),
+            BLASIUS_SHAPE_FACTOR,
+        ),
+    };
+    [
+        (p.theta / theta_target).ln(),
+        p.displacement_thickness() / p.theta - h_target,
+        p.third,
+    ]
+}
+
+/// State that a surface's trailing-edge station hands to the wake: C_E of a turbulent station
+/// as it is, of a laminar one (transition forced at the trailing edge) from its equilibrium.
+pub fn trailing_edge_entrainment(p: &Point, laminar: bool, settings: &EquationSettings) -> f64 {
+    if laminar {
+        starting_entrainment(p, settings)
+    } else {
+        p.third.max(MIN_ENTRAINMENT)
+    }
+}
+
+/// Residuals of the first wake station: θ and δ* of the two surfaces add up (plus the
+/// trailing-edge gap in δ*), C_E is the θ-weighted mean of the two surfaces' values.
+pub fn wake_start(
+    upper: (&Point, bool),
+    lower: (&Point, bool),
+    wake: &Point,
+    trailing_edge_gap: f64,
+    settings: &EquationSettings,
+) -> [f64; 3] {
+    let (u, u_lam) = upper;
+    let (l, l_lam) = lower;
+    let theta = u.theta + l.theta;
+    let dstar = u.displacement_thickness() + l.displacement_thickness() + trailing_edge_gap;
+    let ce = (u.theta * trailing_edge_entrainment(u, u_lam, settings)
+        + l.theta * trailing_edge_entrainment(l, l_lam, settings))
+        / theta;
+    [
+        (wake.theta / theta).ln(),
+        wake.displacement_thickness() / dstar - 1.0,
+        wake.third / ce - 1.0,
+    ]
+}
