@@ -70,9 +70,23 @@ impl PanelSolver {
     /// March the wake streamline at `alpha_rad`: `n_nodes` nodes reaching `length` chords from
     /// the trailing-edge midpoint (see the module doc for the spacing rule).
     ///
+    /// Invalid settings (fewer than 2 nodes, a length that is not positive and finite, a
+    /// non-finite angle) give the degenerate one-node wake (the trailing-edge midpoint only, no
+    /// wake panels), which a caller detects by `nodes.len() == 1`;
+    /// [`PanelSolver::try_wake_line`] reports the reason instead.
+    pub fn wake_line(&self, alpha_rad: f64, n_nodes: usize, length: f64) -> WakeLine {
+        self.try_wake_line(alpha_rad, n_nodes, length)
+            .unwrap_or_else(|_| WakeLine {
+                nodes: vec![self.te_midpoint],
+                tangents: vec![self.te_bisector],
+            })
+    }
+
+    /// [`PanelSolver::wake_line`] with invalid settings reported as errors.
+    ///
     /// # Errors
     /// Fewer than 2 nodes, a length that is not positive and finite, or a non-finite angle.
-    pub fn wake_line(
+    pub fn try_wake_line(
         &self,
         alpha_rad: f64,
         n_nodes: usize,
