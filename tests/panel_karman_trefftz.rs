@@ -127,8 +127,8 @@ impl KarmanTrefftz {
         let k = (self.n * self.n - 1.0) / 3.0;
         let gam = self.circulation(alpha);
         let (s, c) = alpha.sin_cos();
-        let m_origin = -2.0 * PI * k * (2.0 * alpha).sin()
-            + gam * (self.centre.re * c + self.centre.im * s);
+        let m_origin =
+            -2.0 * PI * k * (2.0 * alpha).sin() + gam * (self.centre.re * c + self.centre.im * s);
         let m_p = m_origin - gam * (p.x * c + p.y * s);
         -m_p / (0.5 * chord * chord)
     }
@@ -159,7 +159,10 @@ fn circulation_error(section: &KarmanTrefftz, alpha_deg: f64, panels: usize) -> 
 
 /// Observed orders of convergence from errors at successively halved panel sizes.
 fn observed_orders(errors: &[f64]) -> Vec<f64> {
-    errors.windows(2).map(|w| (w[0] / w[1]).abs().log2()).collect()
+    errors
+        .windows(2)
+        .map(|w| (w[0] / w[1]).abs().log2())
+        .collect()
 }
 
 #[test]
@@ -235,7 +238,11 @@ fn lift_converges_at_second_order() {
     // tenths either way; a first-order defect or a stalled error fails it. The cambered
     // Joukowski errors are also held to METHODS §1.7 (−0.13/−0.03/−0.008 % there): within 0.1 %
     // at 160 panels.
-    let cases = [(karman_trefftz(), 5.0), (symmetric_joukowski(), 5.0), (cambered_joukowski(), 0.0)];
+    let cases = [
+        (karman_trefftz(), 5.0),
+        (symmetric_joukowski(), 5.0),
+        (cambered_joukowski(), 0.0),
+    ];
     for (section, alpha_deg) in cases {
         let e: Vec<f64> = [80, 160, 320]
             .iter()
@@ -274,7 +281,10 @@ fn surface_speed_converges_to_exact() {
     };
     let e: Vec<f64> = [80, 160, 320].iter().map(|&p| max_error(p)).collect();
     let orders = observed_orders(&e);
-    let msg = format!("max |γ error| {:.2e} {:.2e} {:.2e}, orders {orders:.2?}", e[0], e[1], e[2]);
+    let msg = format!(
+        "max |γ error| {:.2e} {:.2e} {:.2e}, orders {orders:.2?}",
+        e[0], e[1], e[2]
+    );
     eprintln!("{msg}");
     assert!(orders.iter().all(|p| (1.6..2.6).contains(p)), "{msg}");
     assert!(e[2] < 5e-3, "{msg}");
