@@ -209,19 +209,10 @@ fn rhs(beta: f64, y: &State) -> State {
     ]
 }
 
-/// Integrates from the wall with f''(0) = `wall_shear` to `eta_max` (RK4, fixed step). Returns
-/// `None` if the solution blows up (a far-off Newton trial).
-fn shoot(beta: f64, wall_shear: f64, eta_max: f64) -> Option<Shot> {
-    shoot_with_resolution(beta, wall_shear, eta_max, STEPS_PER_UNIT_ETA)
-}
-
-/// [`shoot`] with `steps_per_unit_eta` RK4 steps per unit η.
-fn shoot_with_resolution(
-    beta: f64,
-    wall_shear: f64,
-    eta_max: f64,
-    steps_per_unit_eta: f64,
-) -> Option<Shot> {
+/// Integrates from the wall with f''(0) = `wall_shear` to `eta_max` (RK4, fixed step, at least
+/// `steps_per_unit_eta` steps per unit η). Returns `None` if the solution blows up (a far-off
+/// Newton trial).
+fn shoot(beta: f64, wall_shear: f64, eta_max: f64, steps_per_unit_eta: f64) -> Option<Shot> {
     // Number of steps: rounded up, so the step never exceeds 1/steps_per_unit_eta.
     let steps = (eta_max * steps_per_unit_eta).ceil().max(1.0) as usize;
     let h = eta_max / steps as f64;
@@ -326,7 +317,7 @@ fn correct_fixed_eta(
     eta_max: f64,
     steps_per_unit_eta: f64,
 ) -> Result<Point, FalknerSkanError> {
-    let shoot = |beta, s, eta_max| shoot_with_resolution(beta, s, eta_max, steps_per_unit_eta);
+    let shoot = |beta, s, eta_max| shoot(beta, s, eta_max, steps_per_unit_eta);
     let [mut beta, mut s] = guess;
     let failure = |beta, wall_shear, iterations, residual| FalknerSkanError::NotConverged {
         beta,

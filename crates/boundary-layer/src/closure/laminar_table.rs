@@ -48,8 +48,7 @@ pub const HIGH_BLEND_WIDTH: f64 = 10.0;
 /// should not ask).
 const RE_THETA_MIN: f64 = 1e-12;
 
-/// Columns of [`TABLE`].
-const BETA: usize = 0;
+/// Columns of [`TABLE`] (column 0 is β, used by the tests to re-solve rows).
 const SHAPE_FACTOR: usize = 1;
 const ENERGY_SHAPE_FACTOR: usize = 2;
 const RE_THETA_CF_HALF: usize = 3;
@@ -309,6 +308,12 @@ mod tests {
     use crate::falkner_skan::{self, Branch};
     use approx::assert_abs_diff_eq;
 
+    /// Column of β in [`TABLE`].
+    const BETA: usize = 0;
+
+    /// A closure quantity as a function of H.
+    type OfShapeFactor = fn(f64) -> f64;
+
     /// All five columns of a row.
     const COLUMNS: [usize; 5] = [
         BETA,
@@ -460,7 +465,7 @@ mod tests {
         // ends must agree: the interpolant and the blend are C¹ by construction. Step 1e-6,
         // tolerance 1e-4 relative to max(1, |slope|): FD truncation is O(step·|f''|), and the
         // largest curvature (H* next to the lowest knot) is O(10).
-        let functions: [(&str, fn(f64) -> f64); 3] = [
+        let functions: [(&str, OfShapeFactor); 3] = [
             ("H*", energy_shape_factor),
             ("cf", |h| skin_friction(h, 1.0)),
             ("C_D", |h| dissipation(h, 1.0)),
