@@ -22,10 +22,12 @@
 //! fit over a band with the C¹ weight w = 3t² − 2t³: for H below the table, over
 //! [`TABLE_SHAPE_FACTOR_MIN`] − [`LOW_BLEND_WIDTH`] to [`TABLE_SHAPE_FACTOR_MIN`]; above it, over
 //! [`TABLE_SHAPE_FACTOR_MAX`] to [`TABLE_SHAPE_FACTOR_MAX`] + [`HIGH_BLEND_WIDTH`]. Beyond the bands
-//! the values are the published fit's (with its guard against H ≤ 1). The blend bands are an
-//! engineering choice (common practice, no source): no similarity solution exists there to compare
-//! with, since H < 2.07 is not reached by any Falkner-Skan profile and H > 30 needs β closer to 0⁻
-//! than the table goes.
+//! the values are the published fit's (with its guard against H ≤ 1). The blend bands and the table
+//! end at H = 30 are engineering choices (common practice, no source). Below H ≈ 2.0697 (the
+//! β → ∞ sink-flow limit) no Falkner-Skan profile exists; between that and 2.155 (β > 2) and above
+//! H = 30 (the solver reaches H ≈ 76 at β = −0.02) similarity solutions exist but are not
+//! tabulated. At H = 30 the fit differs from the table by 0.19 in H*, 0.024 in Re_θ cf/2 and
+//! 0.020 in 2 Re_θ C_D/H*, so the upper blend band is wide to keep the slopes moderate.
 
 use super::laminar;
 
