@@ -51,7 +51,9 @@ pub enum TransitionKind {
     Natural,
     /// A trip (forced transition position) was reached first.
     Forced,
-    /// Transition was declared at laminar separation (only the non-interacting estimate does this).
+    /// Transition caused by laminar separation (only the non-interacting estimate does this):
+    /// placed by the bubble model's correlation downstream of the separation point (Horton 1968,
+    /// see `direct`), not by the e^N envelope or a trip.
     AtSeparation,
 }
 
