@@ -133,12 +133,12 @@ fn columns_agree_with_an_independent_quadrature_path() {
             .solve_with_sources(alpha, &wake, &scaled)
             .expect("valid sources");
         let plain = solver.solve(alpha);
-        for i in 0..=n {
-            let fd = (perturbed.gamma[i] - plain.gamma[i]) / eps;
-            assert_relative_eq!(fd, dgamma[i], epsilon = 1e-8, max_relative = 1e-8);
+        for ((p, g), d) in perturbed.gamma.iter().zip(&plain.gamma).zip(&dgamma) {
+            let fd = (p - g) / eps;
+            assert_relative_eq!(fd, d, epsilon = 1e-8, max_relative = 1e-8);
         }
 
-        // (c) Wake rows: tangential velocity of the response sheet plus the source, by
+        // (b) Wake rows: tangential velocity of the response sheet plus the source, by
         // quadrature, at the wake nodes not adjacent to the source panel (the adjacent ones use
         // the documented cell-average convention). Agreement to quadrature accuracy, 1e-7.
         for j in 1..nw {

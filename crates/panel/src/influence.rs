@@ -59,31 +59,33 @@ pub(crate) struct Panel {
     pub normal_left: Vector2<f64>,
 }
 
-/// Local coordinates of a field point relative to a panel, with the logarithms guarded at the
-/// end nodes.
+/// Local coordinates of a field point relative to a panel.
 #[derive(Clone, Copy, Debug)]
 struct Local {
     x: f64,
     y: f64,
     r1: f64,
     r2: f64,
+    /// ln r1 and ln r2 (−∞ on the end nodes; products with vanishing factors are guarded).
+    ln_r1: f64,
+    ln_r2: f64,
     /// Angle subtended by the panel, θ2 − θ1.
     theta_diff: f64,
 }
 
 /// `x·ln r`, taking the limit 0 when r = 0 (which implies x = 0 for the terms used here).
-fn x_ln_r(x: f64, r: f64) -> f64 {
+fn x_ln_r(x: f64, r: f64, ln_r: f64) -> f64 {
     if r > 0.0 {
-        x * r.ln()
+        x * ln_r
     } else {
         0.0
     }
 }
 
 /// `½r²·ln r − ¼r²`, with the limit 0 at r = 0.
-fn half_r2_ln_r_minus_quarter_r2(r: f64) -> f64 {
+fn half_r2_ln_r_minus_quarter_r2(r: f64, ln_r: f64) -> f64 {
     if r > 0.0 {
-        0.5 * r * r * r.ln() - 0.25 * r * r
+        0.5 * r * r * ln_r - 0.25 * r * r
     } else {
         0.0
     }
@@ -113,8 +115,8 @@ impl Panel {
         let x = d.dot(&self.tangent);
         let y = d.dot(&self.normal_left);
         let l = self.length;
-        let r1 = x.hypot(y);
-        let r2 = (x - l).hypot(y);
+        let r1 = (x * x + y * y).sqrt();
+        let r2 = ((x - l) * (x - l) + y * y).sqrt();
         // Angle from (P − a) to (P − b): cross = y·L, dot = x(x − L) + y².
         let theta_diff = if r1 <= END_NODE_TOLERANCE * l || r2 <= END_NODE_TOLERANCE * l {
             0.0
@@ -126,19 +128,23 @@ impl Panel {
             y,
             r1,
             r2,
+            ln_r1: r1.ln(),
+            ln_r2: r2.ln(),
             theta_diff,
         }
     }
 
-    fn to_global(&self, u: f64, v: f64) -> Vector2<f64> {
+    fn local_to_global(&self, u: f64, v: f64) -> Vector2<f64> {
         self.tangent * u + self.normal_left * v
     }
 
     /// ∫₀ᴸ ln ρ dξ (J0) and ∫₀ᴸ ξ ln ρ dξ (J1) at a local point.
     fn log_moments(&self, q: &Local) -> (f64, f64) {
         let l = self.length;
-        let j0 = x_ln_r(q.x, q.r1) - x_ln_r(q.x - l, q.r2) - l + q.y * q.theta_diff;
-        let k = half_r2_ln_r_minus_quarter_r2(q.r1) - half_r2_ln_r_minus_quarter_r2(q.r2);
+        let j0 =
+            x_ln_r(q.x, q.r1, q.ln_r1) - x_ln_r(q.x - l, q.r2, q.ln_r2) - l + q.y * q.theta_diff;
+        let k = half_r2_ln_r_minus_quarter_r2(q.r1, q.ln_r1)
+            - half_r2_ln_r_minus_quarter_r2(q.r2, q.ln_r2);
         (j0, q.x * j0 - k)
     }
 
@@ -163,20 +169,20 @@ impl Panel {
     pub fn linear_vortex_velocity(&self, p: &Point2<f64>) -> (Vector2<f64>, Vector2<f64>) {
         let q = self.local(p);
         let l = self.length;
-        let ix0 = q.r1.ln() - q.r2.ln();
+        let ix0 = q.ln_r1 - q.ln_r2;
         let iy0 = q.theta_diff;
         let iy1 = q.x * iy0 - q.y * ix0;
         let ix1 = q.x * ix0 - l + q.y * iy0;
-        let va = self.to_global(-INV_TWO_PI * (iy0 - iy1 / l), INV_TWO_PI * (ix0 - ix1 / l));
-        let vb = self.to_global(-INV_TWO_PI * iy1 / l, INV_TWO_PI * ix1 / l);
+        let va = self.local_to_global(-INV_TWO_PI * (iy0 - iy1 / l), INV_TWO_PI * (ix0 - ix1 / l));
+        let vb = self.local_to_global(-INV_TWO_PI * iy1 / l, INV_TWO_PI * ix1 / l);
         (va, vb)
     }
 
     /// Velocity at `p` of a constant vortex of unit strength.
     pub fn constant_vortex_velocity(&self, p: &Point2<f64>) -> Vector2<f64> {
         let q = self.local(p);
-        let ix0 = q.r1.ln() - q.r2.ln();
-        self.to_global(-INV_TWO_PI * q.theta_diff, INV_TWO_PI * ix0)
+        let ix0 = q.ln_r1 - q.ln_r2;
+        self.local_to_global(-INV_TWO_PI * q.theta_diff, INV_TWO_PI * ix0)
     }
 
     /// Angle of the local vector (x, y) with its 2π jump on the ray chosen by `cut`; it differs
@@ -197,7 +203,9 @@ impl Panel {
         let l = self.length;
         let theta1 = Self::angle(q.x, q.y, cut);
         let theta2 = Self::angle(q.x - l, q.y, cut);
-        let t0 = q.x * theta1 + x_ln_r(q.y, q.r1) - (q.x - l) * theta2 - x_ln_r(q.y, q.r2);
+        let t0 = q.x * theta1 + x_ln_r(q.y, q.r1, q.ln_r1)
+            - (q.x - l) * theta2
+            - x_ln_r(q.y, q.r2, q.ln_r2);
         INV_TWO_PI * t0
     }
 
@@ -209,12 +217,12 @@ impl Panel {
     pub fn constant_source_velocity(&self, p: &Point2<f64>, ln_r_end: Option<f64>) -> Vector2<f64> {
         let q = self.local(p);
         let tol = END_NODE_TOLERANCE * self.length;
-        let ln_of = |r: f64| match ln_r_end {
+        let ln_of = |r: f64, ln_r: f64| match ln_r_end {
             Some(ln_ref) if r <= tol => ln_ref,
-            _ => r.ln(),
+            _ => ln_r,
         };
-        let ix0 = ln_of(q.r1) - ln_of(q.r2);
-        self.to_global(INV_TWO_PI * ix0, INV_TWO_PI * q.theta_diff)
+        let ix0 = ln_of(q.r1, q.ln_r1) - ln_of(q.r2, q.ln_r2);
+        self.local_to_global(INV_TWO_PI * ix0, INV_TWO_PI * q.theta_diff)
     }
 }
 

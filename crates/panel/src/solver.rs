@@ -126,7 +126,9 @@ impl PanelSolver {
         );
         let size = chord.max((nodes[n] - nodes[0]).norm());
         for j in 0..n {
-            if !((nodes[j + 1] - nodes[j]).norm() > ZERO_LENGTH_RELATIVE * size) {
+            let length = (nodes[j + 1] - nodes[j]).norm();
+            // A NaN size or length also fails here.
+            if length.is_nan() || length <= ZERO_LENGTH_RELATIVE * size {
                 return Err(PanelError::ZeroLengthPanel { panel: j });
             }
         }
@@ -175,7 +177,7 @@ impl PanelSolver {
         } else {
             0.0
         };
-        if !(pivot_ratio >= MIN_PIVOT_RATIO) {
+        if pivot_ratio.is_nan() || pivot_ratio < MIN_PIVOT_RATIO {
             return Err(PanelError::SingularMatrix { pivot_ratio });
         }
         let mut rhs = DMatrix::<f64>::zeros(n + 2, 2);

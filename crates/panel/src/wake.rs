@@ -173,7 +173,7 @@ mod tests {
         // The panel lengths must sum to the total for each of the three regimes.
         for (first, total, m) in [(0.01, 1.0, 30), (0.01, 1.0, 200), (0.01, 10.0, 20)] {
             let (h, r) = wake_spacing(first, total, m);
-            assert!(r <= MAX_GROWTH && r >= 1.0);
+            assert!((1.0..=MAX_GROWTH).contains(&r));
             let sum: f64 = (0..m).map(|k| h * r.powi(k as i32)).sum();
             assert_relative_eq!(sum, total, max_relative = 1e-10);
         }
