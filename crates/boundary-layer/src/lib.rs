@@ -14,6 +14,11 @@
 //! - [`direct`]: the fast **non-interacting estimate** — Thwaites from the stagnation point,
 //!   e^N, Horton's (1968) bubble model at laminar separation, lag-entrainment (or Head) turbulent
 //!   layer, the wake and Squire–Young drag. `direct::march_surface` → `SurfaceMarch`.
+//! - [`thwaites`]: Thwaites's integral march (θ from the stagnation point) used by `direct`.
+//! - [`falkner_skan`]: our own Falkner–Skan solver (attached and reversed branches), the source
+//!   of the table-based laminar closure `closure::laminar_table`.
+//! - [`equations`] and [`interaction`]: discrete residuals of the interacting equations and the
+//!   Newton solver with an interaction matrix (the coupled, "full" mode).
 //! - [`state`]: per-station results ([`state::StationState`], [`state::Regime`]) and events
 //!   ([`state::Event`]) shared by all marches.
 //! - [`error::BoundaryLayerError`]: every bad input and failure, with the station index.
@@ -21,6 +26,20 @@
 //! Governing equations (s along the surface, ue edge speed, θ momentum thickness, H = δ*/θ):
 //! momentum integral dθ/ds = cf/2 − (2 + H)(θ/ue) due/ds (von Kármán); kinetic-energy integral
 //! θ dH*/ds + H*(1 − H)(θ/ue) due/ds = 2C_D − H* cf/2; entrainment (1/ue) d(ue θ H1)/ds = C_E.
+//!
+//! Example (direct march of a flat plate at Re = 1e6):
+//!
+//! ```
+//! use foilsweep_boundary_layer::direct::{march_surface, MarchSettings};
+//! # fn main() -> Result<(), foilsweep_boundary_layer::BoundaryLayerError> {
+//! let s: Vec<f64> = (0..50).map(|i| f64::from(i) / 49.0).collect();
+//! let ue = vec![1.0; s.len()];
+//! let march = march_surface(&s, &ue, &s, &MarchSettings::new(1e6))?;
+//! assert_eq!(march.stations.len(), 50);
+//! assert!(march.events.is_empty()); // laminar to x/c = 1 at Re 1e6 with N_crit = 9
+//! # Ok(())
+//! # }
+//! ```
 //!
 //! Invariants: no panics on bad input (errors carry the station index); skin friction is based on
 //! the local edge speed; every clamp applied by a closure outside its calibrated range is
