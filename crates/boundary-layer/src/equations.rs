@@ -96,6 +96,19 @@ pub struct EquationSettings {
     pub transition_entrainment_fraction: f64,
 }
 
+/// Integral of a source term X(s) over an interval, ∫ X ds = ∫ (s X) d(ln s), by the
+/// trapezoidal rule in ln s (the form of Drela & Giles 1987): exact for the s⁻¹ behaviour of the
+/// terms near a stagnation point or leading edge, and the plain trapezoidal rule in s where
+/// the interval is short compared with s.
+fn integrate(p1: &Point, p2: &Point, x1: f64, x2: f64) -> f64 {
+    let (s1, s2) = (p1.arc_length, p2.arc_length);
+    if s1 > 0.0 && s2 > 0.0 {
+        (s2 / s1).ln() * 0.5 * (s1 * x1 + s2 * x2)
+    } else {
+        (s2 - s1) * 0.5 * (x1 + x2)
+    }
+}
+
 /// Local closure values of a laminar station.
 struct LaminarLocal {
     h: f64,
@@ -163,17 +176,19 @@ fn lag_rate_per_length(p: &Point, settings: &EquationSettings, due_ds: f64, wake
 
 /// Residuals of a laminar interval from `p1` to `p2` (third variable N).
 pub fn laminar_interval(p1: &Point, p2: &Point, settings: &EquationSettings) -> [f64; 3] {
-    let ds = p2.arc_length - p1.arc_length;
     let a = laminar_local(p1, settings);
     let b = laminar_local(p2, settings);
     let log_ue = (p2.ue() / p1.ue()).ln();
     let h_mean = 0.5 * (a.h + b.h);
     [
         (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
-            - ds * 0.5 * (a.cf_over_2theta + b.cf_over_2theta),
+            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta),
         (b.h_star / a.h_star).ln() + (1.0 - h_mean) * log_ue
-            - ds * 0.5 * (a.shape_source + b.shape_source),
-        p2.third - p1.third - ds * 0.5 * (a.amplification_rate + b.amplification_rate),
+            - integrate(p1, p2, a.shape_source, b.shape_source),
+        // Amplification by the upstream rate (explicit): the transition point then follows from
+        // upstream laminar quantities alone, the same in every interval bookkeeping (see
+        // `transition_fraction`).
+        p2.third - p1.third - (p2.arc_length - p1.arc_length) * a.amplification_rate,
     ]
 }
 
@@ -191,22 +206,30 @@ pub fn turbulent_interval(
     let log_ue = (p2.ue() / p1.ue()).ln();
     let h_mean = 0.5 * (a.h + b.h);
     let scale = 0.5 * (p1.ue() * p1.theta + p2.ue() * p2.theta);
-    let due_ds = if ds > 0.0 {
+    let due_ds = if ds != 0.0 {
         (p2.ue() - p1.ue()) / ds
     } else {
         0.0
     };
     [
         (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
-            - ds * 0.5 * (a.cf_over_2theta + b.cf_over_2theta),
+            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta),
         // Difference form scaled by the mean ue·θ (> 0): stays defined where H1 ≤ 0 (H ≳ 19).
         (p2.ue() * p2.theta * b.h1 - p1.ue() * p1.theta * a.h1) / scale
-            - ds * 0.5 * (p1.ue() * a.entrainment_source + p2.ue() * b.entrainment_source) / scale,
+            - integrate(
+                p1,
+                p2,
+                p1.ue() * a.entrainment_source,
+                p2.ue() * b.entrainment_source,
+            ) / scale,
         p2.third
             - p1.third
-            - ds * 0.5
-                * (lag_rate_per_length(p1, settings, due_ds, wake)
-                    + lag_rate_per_length(p2, settings, due_ds, wake)),
+            - integrate(
+                p1,
+                p2,
+                lag_rate_per_length(p1, settings, due_ds, wake),
+                lag_rate_per_length(p2, settings, due_ds, wake),
+            ),
     ]
 }
 
@@ -247,121 +270,116 @@ pub struct TransitionPoint {
     pub forced: bool,
 }
 
+/// Natural-transition fraction of the interval `p1 → p2` (unbounded): where
+/// N1 + f·Δs·(dN/ds)_1 reaches N_crit, with the envelope rate of the laminar upstream station
+/// (Drela & Giles 1987 envelope; explicit in the interval like the laminar amplification
+/// residual). +∞ when nothing amplifies.
+fn natural_fraction(p1: &Point, p2: &Point, settings: &EquationSettings) -> f64 {
+    let growth = (p2.arc_length - p1.arc_length) * laminar_local(p1, settings).amplification_rate;
+    if growth > 0.0 {
+        (settings.critical_n - p1.third) / growth
+    } else if p1.third >= settings.critical_n {
+        0.0
+    } else {
+        f64::INFINITY
+    }
+}
+
+fn trip_fraction(p1: &Point, p2: &Point, trip_arc_length: Option<f64>) -> Option<f64> {
+    trip_arc_length
+        .filter(|&s| s > p1.arc_length && s <= p2.arc_length)
+        .map(|s| (s - p1.arc_length) / (p2.arc_length - p1.arc_length))
+}
+
 /// Locates transition in the interval `p1 → p2` if it happens there.
 ///
-/// `p1` is laminar (third = N). The downstream state `p2` is evaluated as laminar for the
-/// amplification rate (its third variable is ignored). Natural transition is where the
-/// trapezoidal integral of dN/ds from p1 to the interpolated point reaches N_crit (solved by a
-/// few fixed-point steps, so the location moves continuously with the states); a trip at
-/// `trip_arc_length` wins when it comes first. Returns `None` when the interval stays laminar.
+/// `p1` is laminar (third = N). Natural transition is where the amplification, integrated
+/// with the upstream station's envelope rate, reaches N_crit; a trip at `trip_arc_length` wins
+/// when it comes first. Returns `None` when the interval stays laminar.
 pub fn locate_transition(
     p1: &Point,
     p2: &Point,
     settings: &EquationSettings,
     trip_arc_length: Option<f64>,
 ) -> Option<TransitionPoint> {
-    let ds = p2.arc_length - p1.arc_length;
-    let trip_fraction = trip_arc_length
-        .filter(|&s| s > p1.arc_length && s <= p2.arc_length)
-        .map(|s| (s - p1.arc_length) / ds);
-    let rate1 = laminar_local(p1, settings).amplification_rate;
-    let n_at = |f: f64| {
-        let t = interpolate(p1, p2, f, 0.0);
-        let rate_t = laminar_local(&t, settings).amplification_rate;
-        p1.third + f * ds * 0.5 * (rate1 + rate_t)
-    };
-    let natural = if n_at(1.0) >= settings.critical_n && p1.third < settings.critical_n {
-        // Secant/bisection hybrid on f in [0, 1]: n_at is monotone in practice (rates ≥ 0).
-        let (mut lo, mut hi) = (0.0_f64, 1.0_f64);
-        let (mut n_lo, mut n_hi) = (p1.third, n_at(1.0));
-        let mut f = 1.0;
-        for _ in 0..30 {
-            f = lo + (settings.critical_n - n_lo) / (n_hi - n_lo).max(1e-300) * (hi - lo);
-            f = f.clamp(lo + 0.01 * (hi - lo), hi - 0.01 * (hi - lo));
-            let n_f = n_at(f);
-            if (n_f - settings.critical_n).abs() < 1e-10 {
-                break;
-            }
-            if n_f < settings.critical_n {
-                lo = f;
-                n_lo = n_f;
-            } else {
-                hi = f;
-                n_hi = n_f;
-            }
-            if hi - lo < 1e-10 {
-                break;
-            }
-        }
-        Some(f)
-    } else if p1.third >= settings.critical_n {
-        Some(0.0)
-    } else {
-        None
-    };
-    match (natural, trip_fraction) {
-        (Some(f), Some(t)) if t < f => Some(TransitionPoint {
+    let natural = natural_fraction(p1, p2, settings).max(0.0);
+    match trip_fraction(p1, p2, trip_arc_length) {
+        Some(t) if t < natural || natural > 1.0 => Some(TransitionPoint {
             fraction: t,
             forced: true,
         }),
-        (Some(f), _) => Some(TransitionPoint {
-            fraction: f,
+        _ if natural <= 1.0 => Some(TransitionPoint {
+            fraction: natural,
             forced: false,
         }),
-        (None, Some(t)) => Some(TransitionPoint {
+        _ => None,
+    }
+}
+
+/// Transition fraction used inside the residual of a transition interval: like
+/// [`locate_transition`], but continued smoothly outside the interval (clamped to
+/// [−0.5, 1.5], states extrapolated linearly) instead of being cut at its ends, so that a
+/// Newton iterate whose transition point has drifted a little out of the interval still sees a
+/// smooth residual; the bookkeeping moves the interval once the iterate settles.
+pub fn transition_fraction(
+    p1: &Point,
+    p2: &Point,
+    settings: &EquationSettings,
+    trip_arc_length: Option<f64>,
+) -> TransitionPoint {
+    let natural = natural_fraction(p1, p2, settings).clamp(-0.5, 1.5);
+    match trip_fraction(p1, p2, trip_arc_length) {
+        Some(t) if t < natural => TransitionPoint {
             fraction: t,
             forced: true,
-        }),
-        (None, None) => None,
+        },
+        _ => TransitionPoint {
+            fraction: natural,
+            forced: false,
+        },
     }
 }
 
 /// Residuals of an interval that contains transition at `point`: laminar from `p1` (third = N)
-/// to T, turbulent from T to `p2` (third = C_E).
+/// to T, turbulent from T to `p2` (third = C_E). The fraction may lie slightly outside [0, 1]
+/// (see [`transition_fraction`]); the two parts are then continued with a negative length, which
+/// keeps the residual smooth.
 pub fn transition_interval(
     p1: &Point,
     p2: &Point,
     point: TransitionPoint,
     settings: &EquationSettings,
 ) -> [f64; 3] {
-    let f = point.fraction.clamp(0.0, 1.0);
-    let mut t = interpolate(p1, p2, f, settings.critical_n);
-    // Laminar part 1 → T (only when it has length; its third residual is not used because N at
-    // T is N_crit by construction).
-    let lam = if f > 0.0 {
-        laminar_interval(p1, &t, settings)
-    } else {
-        [0.0; 3]
-    };
+    let mut t = interpolate(p1, p2, point.fraction, settings.critical_n);
+    // Laminar part 1 → T; its third residual is not used because N at T is N_crit by
+    // construction.
+    let lam = laminar_interval(p1, &t, settings);
     t.third = starting_entrainment(&t, settings);
-    let turb = if f < 1.0 {
-        turbulent_interval(&t, p2, settings, false)
-    } else {
-        [0.0; 3]
-    };
-    [
-        lam[0] + turb[0],
-        lam[1] + turb[1],
-        if f < 1.0 { turb[2] } else { p2.third - t.third },
-    ]
+    let turb = turbulent_interval(&t, p2, settings, false);
+    [lam[0] + turb[0], lam[1] + turb[1], turb[2]]
 }
 
 /// How the first station of a surface starts.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub enum SurfaceStart {
-    /// Stagnation-point (Hiemenz) flow: ue ≈ K s near s = 0.
-    Stagnation,
+    /// Stagnation-point (Hiemenz) flow, ue ≈ K s near s = 0, with the slope K = due/ds at the
+    /// stagnation point (speed per length).
+    Stagnation {
+        /// Edge-speed gradient K at the stagnation point.
+        slope: f64,
+    },
     /// Sharp flat-plate leading edge (Blasius) with finite ue at s = 0.
     FlatPlate,
 }
 
-/// Residuals fixing the first station of a surface from similarity: Thwaites's stagnation
-/// value θ² = 0.075 ν s/ue with the Hiemenz shape factor, or the Blasius values, and N = 0.
+/// Residuals fixing a station near the start of a surface from similarity: Thwaites's
+/// stagnation value θ² = 0.075 ν/K with the Hiemenz shape factor (Thwaites 1949; Hiemenz 1911),
+/// or the Blasius values θ = 0.6641 √(ν s/ue), H = 2.5911 (Blasius 1908); and N = 0.
 pub fn surface_start(p: &Point, start: SurfaceStart, settings: &EquationSettings) -> [f64; 3] {
     let nu = 1.0 / settings.reynolds;
     let (theta_target, h_target) = match start {
-        SurfaceStart::Stagnation => (
-            (STAGNATION_LAMBDA * nu * p.arc_length / p.ue()).sqrt(),
+        SurfaceStart::Stagnation { slope } => (
+            (STAGNATION_LAMBDA * nu / slope.max(1e-6)).sqrt(),
             STAGNATION_SHAPE_FACTOR,
         ),
         SurfaceStart::FlatPlate => (
@@ -369,9 +387,11 @@ pub fn surface_start(p: &Point, start: SurfaceStart, settings: &EquationSettings
             BLASIUS_SHAPE_FACTOR,
         ),
     };
+    // The shape-factor condition is written as m/θ − ue·H (a speed, O(1)) rather than through
+    // δ* = m/ue, which is singular at a station sitting on the stagnation point (ue → 0).
     [
         (p.theta / theta_target).ln(),
-        p.displacement_thickness() / p.theta - h_target,
+        p.mass_defect / p.theta - p.edge_velocity * h_target,
         p.third,
     ]
 }

@@ -24,7 +24,7 @@ use nalgebra::{DMatrix, DVector};
 
 use crate::closure::{lag_entrainment, laminar};
 use crate::equations::{
-    self, EquationSettings, Point, SurfaceStart, TransitionPoint, MIN_ENTRAINMENT,
+    self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT,
 };
 use crate::state::{Event, EventKind, Regime, StationState, TransitionKind};
 
@@ -38,6 +38,10 @@ pub struct SurfaceLayout {
     pub x_over_c: Vec<f64>,
     /// How the first station starts.
     pub start: SurfaceStart,
+    /// Stations closer to the stagnation point than this arc length, and the first station at
+    /// or beyond it, take their state from the similarity start (0: only the first station).
+    /// Keeps the first interval of the march away from the singular region ue → 0.
+    pub similarity_end: f64,
     /// Arc length of a trip (forced transition), if any.
     pub trip_arc_length: Option<f64>,
 }
@@ -296,7 +300,7 @@ fn roles(layout: &Layout, first_turbulent: &[Option<usize>]) -> Vec<StationRole>
     for (k, surf) in layout.surfaces.iter().enumerate() {
         let off = layout.offset(k);
         for i in 0..surf.arc_length.len() {
-            let equation = if i == 0 {
+            let equation = if i == 0 || surf.arc_length[i - 1] < surf.similarity_end {
                 StationEquation::Start(surf.start)
             } else {
                 match first_turbulent[k] {
@@ -305,9 +309,10 @@ fn roles(layout: &Layout, first_turbulent: &[Option<usize>]) -> Vec<StationRole>
                     _ => StationEquation::Laminar,
                 }
             };
+            let starts = matches!(equation, StationEquation::Start(_));
             out.push(StationRole {
                 equation,
-                previous: (i > 0).then(|| off + i - 1),
+                previous: (!starts).then(|| off + i - 1),
                 surface: Some(k),
             });
         }
@@ -430,11 +435,7 @@ impl<'a> Context<'a> {
             }
             StationEquation::Wake => equations::turbulent_interval(&pts[0], &pts[1], eq, true),
             StationEquation::Transition => {
-                let tp = equations::locate_transition(&pts[0], &pts[1], eq, self.trip(g))
-                    .unwrap_or(TransitionPoint {
-                        fraction: 1.0,
-                        forced: false,
-                    });
+                let tp = equations::transition_fraction(&pts[0], &pts[1], eq, self.trip(g));
                 equations::transition_interval(&pts[0], &pts[1], tp, eq)
             }
             StationEquation::WakeStart => {
@@ -608,7 +609,7 @@ fn solve_station(
                 state.mass_defect[g] = m + rlx * delta[1];
                 state.third[g] = third + rlx * delta[2];
                 ue_g = ue_frozen + d_gg * state.mass_defect[g];
-                enforce_bounds(state, g, ue_g.max(equations::MIN_EDGE_VELOCITY), laminar);
+                enforce_bounds(state, g, ue_g, laminar);
                 scaled_update(theta, m, third, delta, rlx, laminar)
             }
             LocalMode::Inverse { .. } => {
@@ -665,15 +666,21 @@ fn relaxation(theta: f64, m: f64, third: f64, dt: f64, dm: f64, dc: f64, laminar
             1.0
         }
     };
-    rlx = rlx.min(lim(theta, dt, 0.4)).min(lim(m, dm, 0.4));
+    // m is measured against 2θ as well (m → 0 at a station on the stagnation point, where a
+    // relative limit would freeze the whole iteration).
+    rlx = rlx
+        .min(lim(theta, dt, 0.4))
+        .min(lim(m.abs().max(2.0 * theta), dm, 0.4));
     if laminar {
         if dc.abs() > 2.0 {
             rlx = rlx.min(2.0 / dc.abs());
         }
     } else {
-        rlx = rlx.min(lim(third.max(1e-4), dc, 0.5));
+        // C_E relative to at least 0.02 (a typical attached-flow value), so that a station
+        // with a small C_E after a regime change does not freeze the whole update.
+        rlx = rlx.min(lim(third.max(0.02), dc, 0.5));
     }
-    rlx.max(1e-3)
+    rlx
 }
 
 fn scaled_update(
@@ -685,20 +692,25 @@ fn scaled_update(
     laminar: bool,
 ) -> f64 {
     let a = (rlx * d[0] / theta).abs();
-    let b = (rlx * d[1] / m.abs().max(1e-12)).abs();
+    let b = (rlx * d[1] / m.abs().max(2.0 * theta)).abs();
     let c = if laminar {
         (rlx * d[2]).abs() / 10.0
     } else {
-        (rlx * d[2] / third.abs().max(1e-3)).abs()
+        (rlx * d[2] / third.abs().max(0.02)).abs()
     };
     a.max(b).max(c)
 }
 
+/// Keeps an iterate physical: θ > 0, H ≥ [`equations::MIN_SHAPE_FACTOR`] where ue > 0 (a station
+/// on the stagnation point, ue ≤ 0, keeps whatever small m its similarity condition asks for),
+/// N ≥ 0 and C_E above its floor.
 fn enforce_bounds(state: &mut InteractionState, g: usize, ue: f64, laminar: bool) {
     state.theta[g] = state.theta[g].max(1e-12);
-    let m_min = equations::MIN_SHAPE_FACTOR * ue * state.theta[g];
-    if state.mass_defect[g] < m_min {
-        state.mass_defect[g] = m_min;
+    if ue > 0.0 {
+        let m_min = equations::MIN_SHAPE_FACTOR * ue * state.theta[g];
+        if state.mass_defect[g] < m_min {
+            state.mass_defect[g] = m_min;
+        }
     }
     if laminar {
         state.third[g] = state.third[g].max(0.0);
@@ -864,9 +876,12 @@ fn solve_in_place(
     let laminar = ctx.is_laminar(g);
     let ue_frozen =
         ue_frozen_for(coupling, state, g) - coupling.influence[(g, g)] * state.mass_defect[g];
+    // The local interaction coefficient only regularises the station solve when it has the
+    // physical sign (thickening raises ue); where it does not (at a blunt or cusped trailing edge
+    // the panel influence can flip it) the station is solved in direct mode.
     let mode = LocalMode::Interacting {
         ue_frozen,
-        d_gg: coupling.influence[(g, g)],
+        d_gg: coupling.influence[(g, g)].max(0.0),
     };
     let h_max = MARCH_MAX_SHAPE_FACTOR[usize::from(!laminar)];
     let previous = ctx.roles[g].previous;
@@ -929,15 +944,25 @@ pub fn residuals(
     r
 }
 
+/// Hysteresis of the transition bookkeeping: the transition interval is kept while the
+/// (smoothly continued) transition fraction stays within [−margin, 1 + margin].
+const TRANSITION_MARGIN: f64 = 0.1;
+
 /// Re-locates the transition interval of every surface for the current state; stations that
 /// change regime get their third variable re-initialised (C_E from its starting value, N by an
 /// explicit trapezoidal march of the envelope rate). Returns true if anything changed.
+///
+/// While the iterate is far from converged (`settled` false) the interval moves by at most one
+/// station per iteration, since the laminar N values are still poor; once settled it jumps to
+/// where the N march puts it. Inside its interval the transition point moves continuously
+/// through the residual itself ([`equations::transition_fraction`]), and the hysteresis margin
+/// keeps the bookkeeping from cycling between two neighbouring intervals.
 fn update_transition(
     layout: &Layout,
     coupling: &Coupling,
     settings: &InteractionSettings,
     state: &mut InteractionState,
-    history: &mut [Vec<Option<usize>>],
+    settled: bool,
 ) -> bool {
     let ue = coupling.edge_velocity(&state.mass_defect);
     let eq = &settings.equations;
@@ -948,21 +973,37 @@ fn update_transition(
         let ctx = Context::new(layout, settings, state);
         let pt =
             |g: usize, third: f64| ctx.point(g, state.theta[g], state.mass_defect[g], third, ue[g]);
+        let old = state.first_turbulent[k];
+        if let Some(t) = old {
+            let f = equations::transition_fraction(
+                &pt(off + t - 1, state.third[off + t - 1]),
+                &pt(off + t, 0.0),
+                eq,
+                surf.trip_arc_length,
+            )
+            .fraction;
+            // Far from convergence only a saturated fraction (the root is beyond the smooth
+            // continuation) moves the interval; near convergence the hysteresis margin decides.
+            let margin = if settled { TRANSITION_MARGIN } else { 0.49 };
+            if (-margin..=1.0 + margin).contains(&f) {
+                continue;
+            }
+        }
         // March N through the laminar stations with the current states until transition.
         let mut n_prev = state.third[off];
-        let mut new_first = None;
+        let mut target = None;
         let mut n_values = vec![n_prev];
         for i in 1..n {
             let g = off + i;
             let p1 = pt(g - 1, n_prev);
             let p2 = pt(g, 0.0);
             if equations::locate_transition(&p1, &p2, eq, surf.trip_arc_length).is_some() {
-                new_first = Some(i);
+                target = Some(i);
                 break;
             }
             // Laminar interval: N at g is the Newton unknown where the station was laminar, or
             // the explicit march value where it was turbulent.
-            let was_laminar = state.first_turbulent[k].is_none_or(|t| i < t);
+            let was_laminar = old.is_none_or(|t| i < t);
             n_prev = if was_laminar {
                 state.third[g]
             } else {
@@ -971,13 +1012,18 @@ fn update_transition(
             };
             n_values.push(n_prev);
         }
-        let old = state.first_turbulent[k];
-        // A move back to the interval just left means the transition point sits on the station
-        // between the two intervals, where both bookkeepings describe the same solution (the
-        // transition residual is continuous there): stay, so the iteration does not cycle.
-        let cycling = history[k].len() >= 2 && history[k][history[k].len() - 2] == new_first;
-        if new_first != old && !cycling {
-            history[k].push(new_first);
+        let new_first = if settled {
+            target
+        } else {
+            match (old, target) {
+                (Some(o), Some(t)) if t > o + 1 => Some(o + 1),
+                (Some(o), Some(t)) if t + 1 < o => Some(o - 1),
+                (Some(o), None) => (o + 1 < n).then_some(o + 1),
+                (None, Some(_)) => old,
+                (_, t) => t,
+            }
+        };
+        if new_first != old {
             changed = true;
             let from = old.unwrap_or(n).min(new_first.unwrap_or(n));
             let to = old.unwrap_or(n).max(new_first.unwrap_or(n));
@@ -1042,10 +1088,14 @@ pub fn solve(
     layout.check()?;
     check_sizes(layout, coupling)?;
     let mut state = match initial {
-        Some(s)
+        Some(mut s)
             if s.theta.len() == layout.len()
                 && s.first_turbulent.len() == layout.surfaces.len() =>
         {
+            // A warm start (a neighbouring solution mapped onto this layout) supplies the frozen
+            // mass defects of one quasi-simultaneous sweep, which makes the stations consistent
+            // with this layout's interaction law before Newton starts.
+            march_sweep(layout, coupling, settings, &mut s);
             s
         }
         _ => initial_march(layout, coupling, settings)?,
@@ -1053,8 +1103,6 @@ pub fn solve(
     let n = layout.len();
     let mut update_history = Vec::new();
     let mut residual_history = Vec::new();
-    let mut history: Vec<Vec<Option<usize>>> =
-        state.first_turbulent.iter().map(|&t| vec![t]).collect();
     let mut termination = Termination::MaxIterations;
     let mut iterations = 0;
     for iteration in 0..settings.max_iterations {
@@ -1099,21 +1147,25 @@ pub fn solve(
         let mut biggest: f64 = 0.0;
         for g in 0..n {
             let d = nalgebra::Vector3::new(delta[3 * g], delta[3 * g + 1], delta[3 * g + 2]);
-            biggest = biggest.max(scaled_update(
+            let su = scaled_update(
                 state.theta[g],
                 state.mass_defect[g],
                 state.third[g],
                 d,
                 rlx,
                 ctx.is_laminar(g),
-            ));
+            );
+            if std::env::var("FS_DEBUG").is_ok() && su > 0.03 {
+                eprintln!("   big update st {g} {:?} su {su:.3} th {:.3e} m {:.3e} c {:.3e} d {:.2e} {:.2e} {:.2e}", ctx.roles[g].equation, state.theta[g], state.mass_defect[g], state.third[g], d[0], d[1], d[2]);
+            }
+            biggest = biggest.max(su);
             state.theta[g] += rlx * d[0];
             state.mass_defect[g] += rlx * d[1];
             state.third[g] += rlx * d[2];
             enforce_bounds(
                 &mut state,
                 g,
-                ue[g].max(equations::MIN_EDGE_VELOCITY),
+                ue[g],
                 ctx.is_laminar(g),
             );
             if !(state.theta[g].is_finite()
@@ -1134,7 +1186,8 @@ pub fn solve(
                 state.first_turbulent
             );
         }
-        let moved = update_transition(layout, coupling, settings, &mut state, &mut history);
+        let settled = rlx >= 1.0 && biggest < 0.05;
+        let moved = update_transition(layout, coupling, settings, &mut state, settled);
         if !moved && rlx >= 1.0 && biggest < settings.tolerance {
             termination = Termination::Converged;
             break;
@@ -1196,12 +1249,7 @@ fn finish(
                 ue[p],
             );
             let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue[g]);
-            let tp = equations::locate_transition(&p1, &p2, eq, surf.trip_arc_length).unwrap_or(
-                TransitionPoint {
-                    fraction: 1.0,
-                    forced: false,
-                },
-            );
+            let tp = equations::transition_fraction(&p1, &p2, eq, surf.trip_arc_length);
             let s = p1.arc_length + tp.fraction * (p2.arc_length - p1.arc_length);
             let x = surf.x_over_c[t - 1] + tp.fraction * (surf.x_over_c[t] - surf.x_over_c[t - 1]);
             transition = Some(TransitionRecord {
@@ -1383,6 +1431,7 @@ mod tests {
                 arc_length: x.clone(),
                 x_over_c: x,
                 start: SurfaceStart::FlatPlate,
+                similarity_end: 0.0,
                 trip_arc_length: None,
             }],
             wake: None,

@@ -1,2 +1,380 @@
-//! (being written; see DEVELOPERS.md for this crate's contract)
+//! One viscous operating point of an airfoil: the boundary layer coupled to the panel method.
+//!
+//! What it does: for a panelled section (a [`PanelSolver`]) and an operating point (alpha or a
+//! target cl, Reynolds number, Mach number, critical N-factor, trips), it builds the boundary-layer
+//! stations of both surfaces (from the stagnation point) and of the wake, the mass-defect
+//! influence matrix `D` from the panel method's source influence, and solves the interacting
+//! boundary layer `ue = ue_inviscid + D·m` simultaneously by Newton's method
+//! ([`foilsweep_boundary_layer::interaction`]). The stagnation point is re-located from the
+//! viscous surface speed and the solve repeated until it stops moving. It then reports cl and cm
+//! from the viscous surface pressure, cd from the wake momentum deficit far downstream
+//! (Squire & Young 1938) split into friction and pressure parts, the events (laminar separation,
+//! transition, reattachment, turbulent separation) per surface, and the convergence record.
+//!
+//! What it does not do: sweeps, continuation over alpha, file output (see `foilsweep-driver`).
+//!
+//! Conventions: chord 1, V∞ = 1, ν = 1/Re; angles in radians inside, `alpha_deg` at the edges;
+//! cm about the quarter chord, nose-up positive. Mach enters only through the Kármán–Tsien
+//! correction of the surface pressure (the boundary layer is incompressible); points whose
+//! minimum Cp is below the critical Cp are flagged.
+//!
+//! Invariants: every result carries a [`PointStatus`]; a point that did not converge is never
+//! reported as converged, and no coefficient is invented for a point that failed.
+//!
+//! ```no_run
+//! # fn main() -> Result<(), Box<dyn std::error::Error>> {
+//! use foilsweep_panel::PanelSolver;
+//! use foilsweep_viscous::{solve_point, OperatingPoint, ViscousSettings};
+//! # let nodes: Vec<nalgebra::Point2<f64>> = Vec::new();
+//! let solver = PanelSolver::new(&nodes)?;
+//! let point = OperatingPoint::at_alpha_deg(4.0, 3.0e5);
+//! let result = solve_point(&solver, &point, &ViscousSettings::default(), None)?;
+//! println!("cl {:.3} cd {:.5}", result.cl, result.cd);
+//! # Ok(()) }
+//! ```
 #![warn(missing_docs)]
+
+mod topology;
+
+use foilsweep_boundary_layer::equations::EquationSettings;
+use foilsweep_boundary_layer::interaction::{
+    self, Coupling, InteractionError, InteractionSettings, InteractionState, Termination,
+};
+use foilsweep_boundary_layer::state::{Event, StationState};
+use foilsweep_panel::PanelSolver;
+
+pub use topology::Surface;
+use topology::Topology;
+
+/// What the operating point holds fixed.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Target {
+    /// Angle of attack, degrees.
+    AlphaDeg(f64),
+    /// Lift coefficient (alpha is found by a secant iteration).
+    Cl(f64),
+}
+
+/// One operating point.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct OperatingPoint {
+    /// Alpha or target cl.
+    pub target: Target,
+    /// Reynolds number on the chord.
+    pub reynolds: f64,
+    /// Free-stream Mach number (Kármán–Tsien correction of Cp only).
+    pub mach: f64,
+    /// Critical amplification factor N_crit.
+    pub critical_n: f64,
+    /// Trip (forced transition) x/c on the upper surface.
+    pub trip_upper_x_over_c: Option<f64>,
+    /// Trip x/c on the lower surface.
+    pub trip_lower_x_over_c: Option<f64>,
+}
+
+impl OperatingPoint {
+    /// A point at `alpha_deg` and `reynolds`, Mach 0, N_crit 9, no trips.
+    pub fn at_alpha_deg(alpha_deg: f64, reynolds: f64) -> Self {
+        Self {
+            target: Target::AlphaDeg(alpha_deg),
+            reynolds,
+            mach: 0.0,
+            critical_n: 9.0,
+            trip_upper_x_over_c: None,
+            trip_lower_x_over_c: None,
+        }
+    }
+
+    fn check(&self) -> Result<(), ViscousError> {
+        let bad = |what: &str, v: f64| Err(ViscousError::Input(format!("{what} {v} is out of range")));
+        match self.target {
+            Target::AlphaDeg(a) if !(a.is_finite() && a.abs() <= 30.0) => return bad("alpha (deg)", a),
+            Target::Cl(c) if !(c.is_finite() && c.abs() <= 3.0) => return bad("target cl", c),
+            _ => {}
+        }
+        if !(self.reynolds.is_finite() && (1.0e3..=1.0e9).contains(&self.reynolds)) {
+            return bad("Reynolds number", self.reynolds);
+        }
+        if !(self.mach.is_finite() && (0.0..0.9).contains(&self.mach)) {
+            return bad("Mach number", self.mach);
+        }
+        if !(self.critical_n.is_finite() && self.critical_n > 0.0 && self.critical_n <= 20.0) {
+            return bad("critical N-factor", self.critical_n);
+        }
+        for trip in [self.trip_upper_x_over_c, self.trip_lower_x_over_c].into_iter().flatten() {
+            if !(trip.is_finite() && (0.0..=1.0).contains(&trip)) {
+                return bad("trip x/c", trip);
+            }
+        }
+        Ok(())
+    }
+}
+
+/// Numerical settings of the coupled solve.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ViscousSettings {
+    /// Wake length behind the trailing edge, chords.
+    pub wake_length: f64,
+    /// Number of wake stations.
+    pub wake_stations: usize,
+    /// Newton iterations per stagnation-point position.
+    pub max_iterations: usize,
+    /// Convergence tolerance on the largest scaled Newton update.
+    pub tolerance: f64,
+    /// Maximum number of stagnation-point relocations.
+    pub max_relocations: usize,
+    /// C_E at transition as a fraction of its equilibrium value.
+    pub transition_entrainment_fraction: f64,
+}
+
+impl Default for ViscousSettings {
+    fn default() -> Self {
+        Self {
+            wake_length: 1.0,
+            wake_stations: 32,
+            max_iterations: 40,
+            tolerance: 1.0e-6,
+            max_relocations: 10,
+            transition_entrainment_fraction: 0.5,
+        }
+    }
+}
+
+/// Why a point ended as it did.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PointStatus {
+    /// Newton converged and the stagnation point settled.
+    Converged,
+    /// The iteration limit was reached; coefficients are from the last iterate and flagged.
+    NotConverged,
+}
+
+/// Boundary-layer results of one surface.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SurfaceResult {
+    /// Which surface.
+    pub surface: Surface,
+    /// Station results from the stagnation point to the trailing edge.
+    pub stations: Vec<StationState>,
+    /// Chordwise position of each station.
+    pub x_over_c: Vec<f64>,
+    /// Events in downstream order.
+    pub events: Vec<Event>,
+    /// Transition x/c, if the surface transitions before the trailing edge.
+    pub transition_x_over_c: Option<f64>,
+    /// True when transition was forced by a trip.
+    pub transition_forced: bool,
+}
+
+/// Result of one operating point.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PointResult {
+    /// Angle of attack, degrees.
+    pub alpha_deg: f64,
+    /// Lift coefficient from the viscous surface pressure.
+    pub cl: f64,
+    /// Drag coefficient from the wake momentum deficit (Squire–Young at the wake end).
+    pub cd: f64,
+    /// Skin-friction part of cd.
+    pub cd_friction: f64,
+    /// Pressure part of cd (cd − cd_friction).
+    pub cd_pressure: f64,
+    /// Quarter-chord pitching moment (nose-up positive).
+    pub cm: f64,
+    /// Inviscid cl at the same alpha (for reference).
+    pub cl_inviscid: f64,
+    /// Minimum surface Cp (compressibility-corrected).
+    pub cp_min: f64,
+    /// True when cp_min is below the critical Cp at this Mach number (outside the model).
+    pub supersonic_flag: bool,
+    /// Upper surface results.
+    pub upper: SurfaceResult,
+    /// Lower surface results.
+    pub lower: SurfaceResult,
+    /// Wake stations.
+    pub wake: Vec<StationState>,
+    /// Surface Cp at the panel nodes (compressibility-corrected).
+    pub cp: Vec<f64>,
+    /// Converged or not.
+    pub status: PointStatus,
+    /// Newton iterations in total.
+    pub iterations: usize,
+    /// Final residual 2-norm.
+    pub residual: f64,
+    /// State to warm-start a neighbouring point.
+    pub warm_start: WarmStart,
+}
+
+/// Boundary-layer state of a solved point, reusable as the starting guess of a neighbour.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WarmStart {
+    pub(crate) topology: Topology,
+    pub(crate) state: InteractionState,
+}
+
+/// Errors of one operating point.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ViscousError {
+    /// The operating point's inputs are out of range.
+    #[error("invalid operating point: {0}")]
+    Input(String),
+    /// The panel geometry cannot carry a boundary layer (e.g. no stagnation point found).
+    #[error("cannot set up the boundary layer: {0}")]
+    Setup(String),
+    /// The coupled solve failed outright.
+    #[error("coupled solve failed at alpha {alpha_deg:.2} deg: {source}")]
+    Solve {
+        /// Angle of attack, degrees.
+        alpha_deg: f64,
+        /// Underlying boundary-layer error.
+        source: InteractionError,
+    },
+    /// A target-cl point found no alpha.
+    #[error("no alpha reaches cl {target:.3} (last cl {last_cl:.3} at {last_alpha_deg:.2} deg)")]
+    TargetCl {
+        /// The requested cl.
+        target: f64,
+        /// Last cl reached.
+        last_cl: f64,
+        /// Alpha of the last attempt.
+        last_alpha_deg: f64,
+    },
+}
+
+/// Solves one operating point. `warm` (a neighbouring point's result) speeds up and stabilises
+/// the solve; without it the boundary layer starts from a quasi-simultaneous march.
+pub fn solve_point(
+    solver: &PanelSolver,
+    point: &OperatingPoint,
+    settings: &ViscousSettings,
+    warm: Option<&WarmStart>,
+) -> Result<PointResult, ViscousError> {
+    point.check()?;
+    match point.target {
+        Target::AlphaDeg(alpha_deg) => solve_alpha(solver, point, alpha_deg, settings, warm),
+        Target::Cl(cl_target) => solve_target_cl(solver, point, cl_target, settings, warm),
+    }
+}
+
+fn solve_target_cl(
+    solver: &PanelSolver,
+    point: &OperatingPoint,
+    cl_target: f64,
+    settings: &ViscousSettings,
+    warm: Option<&WarmStart>,
+) -> Result<PointResult, ViscousError> {
+    // Secant on alpha, started from the inviscid estimate with a 2π-ish slope.
+    let inv0 = solver.solve(0.0);
+    let inv1 = solver.solve(1.0_f64.to_radians());
+    let slope_inv = (inv1.cl - inv0.cl).max(0.05);
+    let mut alpha = (cl_target - inv0.cl) / slope_inv;
+    let mut warm_owned = warm.cloned();
+    let mut previous: Option<(f64, f64)> = None;
+    let mut last = None;
+    for _ in 0..12 {
+        if !(alpha.abs() <= 25.0) {
+            break;
+        }
+        let r = solve_alpha(solver, point, alpha, settings, warm_owned.as_ref())?;
+        let err = r.cl - cl_target;
+        if err.abs() < 1e-4 && r.status == PointStatus::Converged {
+            return Ok(r);
+        }
+        let slope = match previous {
+            Some((a0, c0)) if (alpha - a0).abs() > 1e-6 => ((r.cl - c0) / (alpha - a0)).max(0.02),
+            _ => slope_inv * 0.9,
+        };
+        previous = Some((alpha, r.cl));
+        alpha -= (err / slope).clamp(-3.0, 3.0);
+        warm_owned = Some(r.warm_start.clone());
+        last = Some(r);
+    }
+    let (last_cl, last_alpha_deg) = last.map_or((f64::NAN, alpha), |r| (r.cl, r.alpha_deg));
+    Err(ViscousError::TargetCl {
+        target: cl_target,
+        last_cl,
+        last_alpha_deg,
+    })
+}
+
+fn solve_alpha(
+    solver: &PanelSolver,
+    point: &OperatingPoint,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: Option<&WarmStart>,
+) -> Result<PointResult, ViscousError> {
+    let alpha = alpha_deg.to_radians();
+    let inviscid = solver.solve(alpha);
+    let wake = solver.wake_line(alpha, settings.wake_stations, settings.wake_length);
+    let wake_speed = solver.wake_speed(alpha, &wake);
+    let influence = solver.source_influence(&wake);
+    // With a warm start the stagnation point is placed where the neighbour's displacement
+    // effect puts it at this alpha (viscous γ estimate), so the mapped state fits the layout.
+    let gamma_start = match warm {
+        Some(w) => w
+            .topology
+            .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect),
+        None => inviscid.gamma.clone(),
+    };
+    let mut topo =
+        Topology::new(solver, &gamma_start, &wake, point).map_err(ViscousError::Setup)?;
+    let ib_settings = InteractionSettings {
+        equations: EquationSettings {
+            reynolds: point.reynolds,
+            critical_n: point.critical_n,
+            transition_entrainment_fraction: settings.transition_entrainment_fraction,
+        },
+        max_iterations: settings.max_iterations,
+        tolerance: settings.tolerance,
+    };
+    let mut state = warm.map(|w| topo.remap(&w.topology, &w.state));
+    if std::env::var("FS_DEBUG").is_ok() {
+        eprintln!("topo {:?} warm {:?} state ft {:?}", topo.stagnation(), warm.map(|w| (w.topology.stagnation(), w.state.first_turbulent.clone())), state.as_ref().map(|s| s.first_turbulent.clone()));
+    }
+    let mut iterations = 0;
+    let mut relocations = 0;
+    loop {
+        let d = topo.mass_defect_influence(&influence.matrix);
+        let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, &wake_speed);
+        let coupling = Coupling {
+            edge_velocity_inviscid: &ue_inv,
+            influence: &d,
+        };
+        let solution = interaction::solve(&topo.layout, &coupling, &ib_settings, state.take())
+            .map_err(|source| ViscousError::Solve { alpha_deg, source })?;
+        iterations += solution.convergence.iterations;
+        // Viscous surface speed γ at the nodes and the stagnation point it implies.
+        let gamma = topo.viscous_gamma(&inviscid.gamma, &influence.matrix, &solution.state.mass_defect);
+        let moved = topo.relocated(solver, &gamma, &wake, point).map_err(ViscousError::Setup)?;
+        let converged = solution.convergence.termination == Termination::Converged;
+        match moved {
+            Some(new_topo) if relocations < settings.max_relocations => {
+                relocations += 1;
+                if std::env::var("FS_DEBUG").is_ok() {
+                    eprintln!("relocate {:?} -> {:?} (converged {converged})", topo.stagnation(), new_topo.stagnation());
+                }
+                state = Some(new_topo.remap(&topo, &solution.state));
+                topo = new_topo;
+                continue;
+            }
+            _ => {}
+        }
+        let status = if converged && (moved.is_none()) {
+            PointStatus::Converged
+        } else {
+            PointStatus::NotConverged
+        };
+        return Ok(topology::post_process(
+            solver,
+            &topo,
+            &inviscid,
+            alpha_deg,
+            point,
+            &gamma,
+            solution,
+            status,
+            iterations,
+        ));
+    }
+}
