@@ -1,0 +1,535 @@
+//! The sweep: Reynolds numbers in parallel, targets by continuation with retries.
+//!
+//! Continuation within one Reynolds number ([`continue_over`]): the targets are ordered by value;
+//! the march starts at the requested value nearest zero (ties go to the larger value), goes
+//! upward through the larger values and then downward from the start through the smaller ones.
+//! Each point is warm-started from the last converged point of its direction. A point that
+//! fails (error or not converged) is retried
+//! 1. cold (no warm start), if the first try was warm;
+//! 2. by approaching it from the last converged neighbour in steps of half the gap, halving the
+//!    step after each failure up to [`SweepSettings::max_step_halvings`] times; the intermediate
+//!    values only warm up the solver and are not reported.
+//!
+//! If it still fails it is kept, flagged with the reason of its first failure. After
+//! [`SweepSettings::give_up_after_failures`] consecutive failures in one direction the rest of
+//! that direction is listed as not attempted. Output order is the requested order, so it does
+//! not depend on the thread count.
+
+use foilsweep_viscous::{
+    solve_point, OperatingPoint, PointResult, PointStatus, Target, ViscousSettings,
+};
+use rayon::prelude::*;
+
+use crate::output::{Polar, PolarPoint, PolarSettings, TargetKind, CAUTION, SCHEMA_VERSION};
+use crate::request::{PolarRequest, RequestError, SweepSettings, Targets};
+
+/// Why one try at a point did not give a converged solution.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct Failure {
+    /// One-line reason.
+    pub reason: String,
+    /// Newton iterations, when the solver ran out of them.
+    pub iterations: Option<usize>,
+    /// Final residual, when the solver ran out of iterations.
+    pub residual: Option<f64>,
+}
+
+/// Solves one value of the swept quantity, optionally warm-started from a converged neighbour.
+pub(crate) trait SolveAt {
+    /// A converged solution (also what warm-starts a neighbour).
+    type Solved: Clone;
+    /// One try at `value`.
+    fn solve_at(&self, value: f64, warm: Option<&Self::Solved>) -> Result<Self::Solved, Failure>;
+}
+
+/// What became of one requested value.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) enum Outcome<S> {
+    /// Converged, possibly after retries.
+    Converged(S),
+    /// Still failing after every retry; the first failure at the value itself.
+    Failed(Failure),
+    /// Skipped after too many consecutive failures in its direction.
+    NotAttempted,
+}
+
+/// One requested value's outcome and the solves spent on it.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct Record<S> {
+    pub outcome: Outcome<S>,
+    pub solves: usize,
+}
+
+/// The order of the march as indices into `values`: upward from the value nearest zero
+/// (inclusive), then downward from just below it.
+pub(crate) fn march_order(values: &[f64]) -> (Vec<usize>, Vec<usize>) {
+    let mut sorted: Vec<usize> = (0..values.len()).collect();
+    sorted.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
+    // Smallest |value|; among equal magnitudes the later (larger) one.
+    let start = sorted
+        .iter()
+        .enumerate()
+        .min_by(|(ia, &a), (ib, &b)| {
+            values[a]
+                .abs()
+                .total_cmp(&values[b].abs())
+                .then(ib.cmp(ia))
+        })
+        .map_or(0, |(i, _)| i);
+    let upward = sorted[start..].to_vec();
+    let downward = sorted[..start].iter().rev().copied().collect();
+    (upward, downward)
+}
+
+/// Tries `value` with the retries of the module doc. Returns the outcome and the solves spent.
+fn attempt<P: SolveAt>(
+    solver: &P,
+    value: f64,
+    neighbour: Option<&(f64, P::Solved)>,
+    settings: &SweepSettings,
+) -> (Outcome<P::Solved>, usize) {
+    let mut solves = 1;
+    let first = match solver.solve_at(value, neighbour.map(|(_, s)| s)) {
+        Ok(solved) => return (Outcome::Converged(solved), solves),
+        Err(failure) => failure,
+    };
+    let Some((from, warm)) = neighbour else {
+        // The first try was already cold and there is nothing to approach from.
+        return (Outcome::Failed(first), solves);
+    };
+    solves += 1;
+    if let Ok(solved) = solver.solve_at(value, None) {
+        return (Outcome::Converged(solved), solves);
+    }
+    // Approach from the converged neighbour in smaller steps.
+    let mut current = (*from, warm.clone());
+    let mut step = (value - from) / 2.0;
+    let mut halvings = 1;
+    while halvings <= settings.max_step_halvings {
+        let remaining = value - current.0;
+        let next = if remaining.abs() <= step.abs() * (1.0 + 1e-9) {
+            value
+        } else {
+            current.0 + step
+        };
+        solves += 1;
+        match solver.solve_at(next, Some(&current.1)) {
+            Ok(solved) if next == value => return (Outcome::Converged(solved), solves),
+            Ok(solved) => current = (next, solved),
+            Err(_) => {
+                halvings += 1;
+                step /= 2.0;
+            }
+        }
+    }
+    let retried = if settings.max_step_halvings > 0 {
+        let finest = (value - from) / 2f64.powi(settings.max_step_halvings.min(60) as i32);
+        format!(
+            "; a cold restart and an approach from {from} in steps down to {:.3} also failed",
+            finest.abs()
+        )
+    } else {
+        "; a cold restart also failed".to_owned()
+    };
+    let reason = format!("{}{retried}", first.reason);
+    (Outcome::Failed(Failure { reason, ..first }), solves)
+}
+
+/// Solves every value by continuation (module doc). `on_done(index, record)` is called as each
+/// requested value is finished; the records come back in the order of `values`.
+pub(crate) fn continue_over<P: SolveAt>(
+    solver: &P,
+    values: &[f64],
+    settings: &SweepSettings,
+    on_done: &mut dyn FnMut(usize, &Record<P::Solved>),
+) -> Vec<Record<P::Solved>> {
+    let (upward, downward) = march_order(values);
+    let start = upward.first().copied();
+    let mut records: Vec<Option<Record<P::Solved>>> = vec![None; values.len()];
+    let mut march = |order: Vec<usize>,
+                     mut neighbour: Option<(f64, P::Solved)>,
+                     records: &mut Vec<Option<Record<P::Solved>>>| {
+        let mut consecutive_failures = 0;
+        for index in order {
+            let value = values[index];
+            let gave_up = settings.give_up_after_failures > 0
+                && consecutive_failures >= settings.give_up_after_failures;
+            let (outcome, solves) = if gave_up {
+                (Outcome::NotAttempted, 0)
+            } else {
+                attempt(solver, value, neighbour.as_ref(), settings)
+            };
+            match &outcome {
+                Outcome::Converged(solved) => {
+                    consecutive_failures = 0;
+                    neighbour = Some((value, solved.clone()));
+                }
+                Outcome::Failed(_) => consecutive_failures += 1,
+                Outcome::NotAttempted => {}
+            }
+            let record = Record { outcome, solves };
+            on_done(index, &record);
+            records[index] = Some(record);
+        }
+    };
+    march(upward, None, &mut records);
+    // The downward march starts from the start point's solution, if it converged.
+    let start_solution = start.and_then(|i| match &records[i] {
+        Some(Record {
+            outcome: Outcome::Converged(solved),
+            ..
+        }) => Some((values[i], solved.clone())),
+        _ => None,
+    });
+    march(downward, start_solution, &mut records);
+    records
+        .into_iter()
+        .map(|r| {
+            r.unwrap_or(Record {
+                outcome: Outcome::NotAttempted,
+                solves: 0,
+            })
+        })
+        .collect()
+}
+
+/// The viscous solver at one Reynolds number of a request.
+struct ViscousAt<'a> {
+    request: &'a PolarRequest,
+    reynolds: f64,
+}
+
+impl SolveAt for ViscousAt<'_> {
+    type Solved = PointResult;
+
+    fn solve_at(&self, value: f64, warm: Option<&PointResult>) -> Result<PointResult, Failure> {
+        let request = self.request;
+        let point = OperatingPoint {
+            target: match request.targets {
+                Targets::AlphaDeg(_) => Target::AlphaDeg(value),
+                Targets::Cl(_) => Target::Cl(value),
+            },
+            reynolds: self.reynolds,
+            mach: request.mach,
+            critical_n: request.critical_n,
+            trip_upper_x_over_c: request.trip_upper_x_over_c,
+            trip_lower_x_over_c: request.trip_lower_x_over_c,
+        };
+        let warm = warm.map(|w| &w.warm_start);
+        match solve_point(&request.solver, &point, &request.viscous, warm) {
+            Ok(result) if result.status == PointStatus::Converged => Ok(result),
+            Ok(result) => Err(Failure {
+                reason: format!(
+                    "not converged: residual {:.1e} after {} iterations",
+                    result.residual, result.iterations
+                ),
+                iterations: Some(result.iterations),
+                residual: Some(result.residual),
+            }),
+            Err(error) => Err(Failure {
+                reason: error.to_string(),
+                iterations: None,
+                residual: None,
+            }),
+        }
+    }
+}
+
+fn polar_point(
+    request: &PolarRequest,
+    reynolds: f64,
+    value: f64,
+    record: &Record<PointResult>,
+    give_up_after: usize,
+) -> PolarPoint {
+    let (requested_alpha, target_cl) = match request.targets {
+        Targets::AlphaDeg(_) => (Some(value), None),
+        Targets::Cl(_) => (None, Some(value)),
+    };
+    match &record.outcome {
+        Outcome::Converged(result) => {
+            PolarPoint::converged(reynolds, target_cl, result, record.solves)
+        }
+        Outcome::Failed(failure) => PolarPoint::flagged(
+            reynolds,
+            requested_alpha,
+            target_cl,
+            failure.reason.clone(),
+            failure.iterations,
+            failure.residual,
+            record.solves,
+        ),
+        Outcome::NotAttempted => PolarPoint::flagged(
+            reynolds,
+            requested_alpha,
+            target_cl,
+            format!("not attempted: beyond {give_up_after} consecutive failed points"),
+            None,
+            None,
+            0,
+        ),
+    }
+}
+
+fn polar_settings(request: &PolarRequest) -> PolarSettings {
+    let ViscousSettings {
+        wake_length,
+        wake_stations,
+        max_iterations,
+        tolerance,
+        max_relocations,
+        transition_entrainment_fraction,
+    } = request.viscous;
+    PolarSettings {
+        target: match request.targets {
+            Targets::AlphaDeg(_) => TargetKind::AlphaDeg,
+            Targets::Cl(_) => TargetKind::Cl,
+        },
+        mach: request.mach,
+        critical_n: request.critical_n,
+        trip_upper_x_over_c: request.trip_upper_x_over_c,
+        trip_lower_x_over_c: request.trip_lower_x_over_c,
+        wake_length_chords: wake_length,
+        wake_stations,
+        max_iterations,
+        tolerance,
+        max_relocations,
+        transition_entrainment_fraction,
+        max_step_halvings: request.sweep.max_step_halvings,
+        give_up_after_failures: request.sweep.give_up_after_failures,
+    }
+}
+
+/// Runs the sweep of `request` (module doc). `progress` is called once per finished requested
+/// point, from the worker threads.
+///
+/// # Errors
+/// [`RequestError`] if the request fails [`PolarRequest::check`]; failed points are not errors
+/// (they are flagged in the polar).
+pub fn run_polar(
+    request: &PolarRequest,
+    progress: Option<&(dyn Fn(&PolarPoint) + Sync)>,
+) -> Result<Polar, RequestError> {
+    request.check()?;
+    let values = request.targets.values();
+    let give_up_after = request.sweep.give_up_after_failures;
+    let points: Vec<Vec<PolarPoint>> = request
+        .reynolds
+        .par_iter()
+        .map(|&reynolds| {
+            let solver = ViscousAt { request, reynolds };
+            let mut report = |index: usize, record: &Record<PointResult>| {
+                if let Some(progress) = progress {
+                    progress(&polar_point(
+                        request,
+                        reynolds,
+                        values[index],
+                        record,
+                        give_up_after,
+                    ));
+                }
+            };
+            continue_over(&solver, values, &request.sweep, &mut report)
+                .iter()
+                .zip(values)
+                .map(|(record, &value)| {
+                    polar_point(request, reynolds, value, record, give_up_after)
+                })
+                .collect()
+        })
+        .collect();
+    Ok(Polar {
+        schema_version: SCHEMA_VERSION,
+        tool_version: env!("CARGO_PKG_VERSION").to_owned(),
+        caution: CAUTION.to_owned(),
+        section: request.section.clone(),
+        settings: polar_settings(request),
+        reynolds: request.reynolds.clone(),
+        targets: values.to_vec(),
+        points: points.into_iter().flatten().collect(),
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use std::cell::RefCell;
+
+    /// A stand-in solver: the "solution" is the value itself. It fails at `value` when
+    /// `fails(value, warm_from)` says so, and records every call as (value, warm-start value).
+    struct Scripted<F: Fn(f64, Option<f64>) -> bool> {
+        fails: F,
+        calls: RefCell<Vec<(f64, Option<f64>)>>,
+    }
+
+    impl<F: Fn(f64, Option<f64>) -> bool> SolveAt for Scripted<F> {
+        type Solved = f64;
+        fn solve_at(&self, value: f64, warm: Option<&f64>) -> Result<f64, Failure> {
+            self.calls.borrow_mut().push((value, warm.copied()));
+            if (self.fails)(value, warm.copied()) {
+                Err(Failure {
+                    reason: format!("scripted failure at {value}"),
+                    iterations: Some(40),
+                    residual: Some(1.0),
+                })
+            } else {
+                Ok(value)
+            }
+        }
+    }
+
+    fn scripted<F: Fn(f64, Option<f64>) -> bool>(fails: F) -> Scripted<F> {
+        Scripted {
+            fails,
+            calls: RefCell::new(Vec::new()),
+        }
+    }
+
+    fn run<F: Fn(f64, Option<f64>) -> bool>(
+        solver: &Scripted<F>,
+        values: &[f64],
+        settings: &SweepSettings,
+    ) -> (Vec<Record<f64>>, Vec<usize>) {
+        let mut finished = Vec::new();
+        let records = continue_over(solver, values, settings, &mut |i, _| finished.push(i));
+        (records, finished)
+    }
+
+    #[test]
+    fn march_starts_nearest_zero_goes_up_then_down() {
+        assert_eq!(
+            march_order(&[-4.0, -2.0, 0.0, 2.0, 4.0]),
+            (vec![2, 3, 4], vec![1, 0])
+        );
+        // Requested out of order: indices refer to the request.
+        assert_eq!(march_order(&[4.0, 0.5, -2.0, 2.0]), (vec![1, 3, 0], vec![2]));
+        // All positive: start at the smallest; a tie in |value| goes to the positive one.
+        assert_eq!(march_order(&[7.0, 3.0, 5.0]), (vec![1, 2, 0], vec![]));
+        assert_eq!(march_order(&[-1.0, 1.0]), (vec![1], vec![0]));
+        assert_eq!(march_order(&[]), (vec![], vec![]));
+    }
+
+    #[test]
+    fn every_point_is_warm_started_from_its_converged_neighbour() {
+        let solver = scripted(|_, _| false);
+        let values = [-4.0, -2.0, 0.0, 2.0, 4.0];
+        let (records, finished) = run(&solver, &values, &SweepSettings::default());
+        assert_eq!(
+            *solver.calls.borrow(),
+            [
+                (0.0, None),
+                (2.0, Some(0.0)),
+                (4.0, Some(2.0)),
+                (-2.0, Some(0.0)),
+                (-4.0, Some(-2.0)),
+            ]
+        );
+        assert_eq!(finished, [2, 3, 4, 1, 0]);
+        for (record, value) in records.iter().zip(values) {
+            assert_eq!(record.outcome, Outcome::Converged(value));
+            assert_eq!(record.solves, 1);
+        }
+    }
+
+    #[test]
+    fn a_failed_point_is_retried_cold_then_approached_in_smaller_steps() {
+        // Fails at 4 unless warm-started from at most 1 away (and always cold).
+        let solver = scripted(|v, warm| v == 4.0 && !matches!(warm, Some(w) if (v - w).abs() <= 1.0));
+        let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &SweepSettings::default());
+        assert_eq!(records[2].outcome, Outcome::Converged(4.0));
+        assert_eq!(
+            solver.calls.borrow()[2..],
+            [
+                (4.0, Some(2.0)), // warm from the neighbour
+                (4.0, None),      // cold restart
+                (3.0, Some(2.0)), // half step: warm-up only
+                (4.0, Some(3.0)), // the point itself, from the warm-up
+            ]
+        );
+        assert_eq!(records[2].solves, 4);
+    }
+
+    #[test]
+    fn step_is_halved_up_to_the_limit_then_the_point_is_flagged() {
+        // Fails beyond 2.3 however it is approached; each halving is tried once.
+        let solver = scripted(|v, _| v > 2.3);
+        let settings = SweepSettings {
+            max_step_halvings: 3,
+            give_up_after_failures: 0,
+        };
+        let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &settings);
+        let calls: Vec<f64> = solver.calls.borrow()[2..].iter().map(|c| c.0).collect();
+        // warm, cold, 3 (step 1) fails, 2.5 (step 0.5) fails, 2.25 (step 0.25) converges,
+        // then 2.5 from there fails again: three halvings used up.
+        assert_eq!(calls, [4.0, 4.0, 3.0, 2.5, 2.25, 2.5]);
+        match &records[2].outcome {
+            Outcome::Failed(failure) => {
+                assert_eq!(
+                    failure.reason,
+                    "scripted failure at 4; a cold restart and an approach from 2 in steps \
+                     down to 0.250 also failed"
+                );
+                assert_eq!(failure.iterations, Some(40));
+            }
+            other => panic!("expected a failure, got {other:?}"),
+        }
+        assert_eq!(records[2].solves, 6);
+    }
+
+    #[test]
+    fn after_a_failure_the_next_point_starts_from_the_last_converged_one() {
+        let solver = scripted(|v, _| v == 2.0);
+        let settings = SweepSettings {
+            max_step_halvings: 0,
+            give_up_after_failures: 2,
+        };
+        let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &settings);
+        assert!(matches!(records[1].outcome, Outcome::Failed(_)));
+        assert_eq!(records[2].outcome, Outcome::Converged(4.0));
+        assert_eq!(solver.calls.borrow().last(), Some(&(4.0, Some(0.0))));
+    }
+
+    #[test]
+    fn two_consecutive_failures_end_a_direction_but_keep_every_point() {
+        // "Stall" above 5 and below -3.
+        let solver = scripted(|v, _| !(-3.0..=5.0).contains(&v));
+        let values: Vec<f64> = (-6..=10).map(f64::from).collect();
+        let (records, finished) = run(&solver, &values, &SweepSettings::default());
+        assert_eq!(records.len(), values.len());
+        let mut sorted = finished.clone();
+        sorted.sort_unstable();
+        assert_eq!(sorted, (0..values.len()).collect::<Vec<_>>());
+        for (record, &value) in records.iter().zip(&values) {
+            let expected = match value {
+                v if (-3.0..=5.0).contains(&v) => "converged",
+                6.0 | 7.0 | -4.0 | -5.0 => "failed",
+                _ => "not attempted",
+            };
+            let got = match record.outcome {
+                Outcome::Converged(_) => "converged",
+                Outcome::Failed(_) => "failed",
+                Outcome::NotAttempted => "not attempted",
+            };
+            assert_eq!(got, expected, "alpha {value}");
+        }
+        // Nothing beyond the two failures was solved.
+        assert!(solver.calls.borrow().iter().all(|c| (-5.0..=7.0).contains(&c.0)));
+    }
+
+    #[test]
+    fn a_failed_start_point_leaves_the_downward_march_cold() {
+        let solver = scripted(|v, _| v == 0.0);
+        let settings = SweepSettings {
+            max_step_halvings: 3,
+            give_up_after_failures: 2,
+        };
+        let (records, _) = run(&solver, &[-1.0, 0.0, 1.0], &settings);
+        assert!(matches!(records[1].outcome, Outcome::Failed(_)));
+        // The start had no neighbour: one cold try only, no retries possible.
+        assert_eq!(records[1].solves, 1);
+        assert_eq!(
+            *solver.calls.borrow(),
+            [(0.0, None), (1.0, None), (-1.0, None)]
+        );
+    }
+}
