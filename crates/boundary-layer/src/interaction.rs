@@ -645,6 +645,18 @@ fn delta_dbg(_j: &DMatrix<f64>, _r: &DVector<f64>, _w: usize) -> f64 {
     0.0
 }
 
+fn direct_march() -> bool {
+    std::env::var("FS_QS").is_err()
+}
+
+fn march_edge_velocity(coupling: &Coupling, state: &InteractionState, g: usize) -> f64 {
+    if direct_march() {
+        coupling.edge_velocity_inviscid[g].max(1e-3)
+    } else {
+        ue_frozen_for(coupling, state, g).max(1e-3)
+    }
+}
+
 fn ue_frozen_for(coupling: &Coupling, state: &InteractionState, d: usize) -> f64 {
     let row = coupling.influence.row(d);
     coupling.edge_velocity_inviscid[d]
@@ -762,6 +774,7 @@ pub fn initial_march(
     for _sweep in 0..1 {
         march_sweep(layout, coupling, settings, &mut state);
         if std::env::var("FS_DEBUG").is_ok() {
+            eprintln!("sweep residual {:.3e}", residual_norm(layout, coupling, settings, &state));
             let ue = coupling.edge_velocity(&state.mass_defect);
             for g in (0..n).step_by(6) {
                 eprintln!(
@@ -790,7 +803,9 @@ pub fn initial_march(
 
 /// Largest laminar and turbulent shape factors accepted from a quasi-simultaneous station solve
 /// in the initial march; beyond them the station is solved in inverse mode with a prescribed H.
-const MARCH_MAX_SHAPE_FACTOR: [f64; 2] = [12.0, 4.0];
+const MARCH_MAX_SHAPE_FACTOR: [f64; 2] = [3.8, 2.5];
+/// Largest shape factors the inverse-mode march prescribes (laminar, turbulent).
+const MARCH_INVERSE_MAX_SHAPE_FACTOR: [f64; 2] = [8.0, 2.5];
 
 /// One sweep over all stations in downstream order (surfaces, then wake), locating transition
 /// on the way. Each station is solved quasi-simultaneously; where that fails or gives an
@@ -810,10 +825,18 @@ fn march_sweep(
         state.first_turbulent[k] = None;
         for i in 0..surf.arc_length.len() {
             let g = off + i;
-            ue_march[g] = ue_frozen_for(coupling, state, g).max(1e-3);
+            ue_march[g] = march_edge_velocity(coupling, state, g);
             if i > 0 {
-                // Start from the previous station's shape factor and third variable.
+                // Downstream stations not marched yet carry the previous station's δ* (flat
+                // extrapolation), so that the frozen neighbours seen through the interaction
+                // law do not impose a spurious jump of the mass defect just downstream.
                 let p = g - 1;
+                let dstar_p = state.mass_defect[p] / ue_march[p].max(1e-3);
+                for j in g..off + surf.arc_length.len() {
+                    let ue_j = coupling.edge_velocity_inviscid[j].abs().max(0.05);
+                    state.mass_defect[j] = dstar_p * ue_j;
+                    state.theta[j] = state.theta[p];
+                }
                 let h = (state.mass_defect[p] / (ue_march[p] * state.theta[p])).clamp(1.2, 10.0);
                 state.theta[g] = state.theta[p];
                 state.mass_defect[g] = h * state.theta[g] * ue_march[g];
@@ -849,7 +872,7 @@ fn march_sweep(
         let off = layout.offset(2);
         for i in 0..w.arc_length.len() {
             let g = off + i;
-            ue_march[g] = ue_frozen_for(coupling, state, g).max(1e-3);
+            ue_march[g] = march_edge_velocity(coupling, state, g);
             if i > 0 {
                 state.theta[g] = state.theta[g - 1];
                 state.mass_defect[g] = state.mass_defect[g - 1] * ue_march[g] / ue_march[g - 1];
@@ -874,15 +897,19 @@ fn solve_in_place(
     let saved = (state.theta[g], state.mass_defect[g], state.third[g]);
     let ctx = Context::new(layout, settings, state);
     let laminar = ctx.is_laminar(g);
-    let ue_frozen =
-        ue_frozen_for(coupling, state, g) - coupling.influence[(g, g)] * state.mass_defect[g];
     // The local interaction coefficient only regularises the station solve when it has the
     // physical sign (thickening raises ue); where it does not (at a blunt or cusped trailing edge
     // the panel influence can flip it) the station is solved in direct mode.
-    let mode = LocalMode::Interacting {
-        ue_frozen,
-        d_gg: coupling.influence[(g, g)].max(0.0),
-    };
+    //
+    // Where D_gg·δ* > 0.5 (panels shorter than the layer is thick: fine trailing-edge panels
+    // and the near wake at low Re) the station's own displacement would dominate its edge speed
+    // and the local problem turns near-singular; such stations are solved in direct mode too.
+    // The global Newton iteration restores the full coupling.
+    let dstar = (state.mass_defect[g] / ue_march[g].max(1e-3)).abs().max(1e-12);
+    let d_gg = coupling.influence[(g, g)].max(0.0);
+    let d_gg = if d_gg * dstar > 0.5 || direct_march() { 0.0 } else { d_gg };
+    let ue_frozen = march_edge_velocity(coupling, state, g) - d_gg * state.mass_defect[g];
+    let mode = LocalMode::Interacting { ue_frozen, d_gg };
     let h_max = MARCH_MAX_SHAPE_FACTOR[usize::from(!laminar)];
     let previous = ctx.roles[g].previous;
     let plausible = |st: &InteractionState, ue: f64| {
@@ -894,9 +921,11 @@ fn solve_in_place(
     if let Some(ue) = solve_station(&ctx, state, ue_march, g, mode) {
         if plausible(state, ue) {
             ue_march[g] = ue;
+            if std::env::var("FS_DEBUG2").is_ok() { eprintln!("march {g} qs ue {ue:.4} th {:.3e} H {:.3} c {:.3}", state.theta[g], state.mass_defect[g]/(ue*state.theta[g]), state.third[g]); }
             return;
         }
     }
+    if std::env::var("FS_DEBUG2").is_ok() { eprintln!("march {g} -> inverse (d_gg {d_gg:.3e} dstar {dstar:.3e} ue_frozen {ue_frozen:.4} th {:.3e} m {:.3e} H {:.3})", state.theta[g], state.mass_defect[g], state.mass_defect[g]/(ue_march[g]*state.theta[g])); }
     // Inverse mode with H continued from upstream.
     state.theta[g] = saved.0;
     state.mass_defect[g] = saved.1;
@@ -907,10 +936,18 @@ fn solve_in_place(
     let ds_over_theta = previous.map_or(0.0, |p| {
         (ctx.arc_length[g] - ctx.arc_length[p]) / state.theta[p]
     });
+    // Prescribed shape factor: a laminar layer separating or separated keeps thickening
+    // slowly; a turbulent one relaxes towards the separation level from either side (down
+    // after a bubble, up in an adverse gradient such as the approach to a trailing edge).
     let shape_factor = if laminar {
-        (h_prev + 0.03 * ds_over_theta).clamp(2.0, h_max)
+        (h_prev + 0.03 * ds_over_theta).clamp(2.0, MARCH_INVERSE_MAX_SHAPE_FACTOR[0])
     } else {
-        (h_prev - 0.15 * ds_over_theta).clamp(1.5, h_max)
+        let level = MARCH_INVERSE_MAX_SHAPE_FACTOR[1];
+        if h_prev > level {
+            (h_prev - 0.15 * ds_over_theta).max(level)
+        } else {
+            (h_prev + 0.03 * ds_over_theta).clamp(1.3, level)
+        }
     };
     if let Some(ue) = solve_station(
         &ctx,
@@ -925,6 +962,21 @@ fn solve_in_place(
     state.theta[g] = saved.0;
     state.mass_defect[g] = saved.1;
     state.third[g] = saved.2;
+}
+
+/// 2-norm of the residuals of a state (infinite if any entry is not finite).
+fn residual_norm(
+    layout: &Layout,
+    coupling: &Coupling,
+    settings: &InteractionSettings,
+    state: &InteractionState,
+) -> f64 {
+    let r = residuals(layout, coupling, settings, state);
+    if r.iter().all(|v| v.is_finite()) {
+        r.iter().map(|v| v * v).sum::<f64>().sqrt()
+    } else {
+        f64::INFINITY
+    }
 }
 
 /// Residuals of all stations (3 per station) for a state.
@@ -1088,14 +1140,10 @@ pub fn solve(
     layout.check()?;
     check_sizes(layout, coupling)?;
     let mut state = match initial {
-        Some(mut s)
+        Some(s)
             if s.theta.len() == layout.len()
                 && s.first_turbulent.len() == layout.surfaces.len() =>
         {
-            // A warm start (a neighbouring solution mapped onto this layout) supplies the frozen
-            // mass defects of one quasi-simultaneous sweep, which makes the stations consistent
-            // with this layout's interaction law before Newton starts.
-            march_sweep(layout, coupling, settings, &mut s);
             s
         }
         _ => initial_march(layout, coupling, settings)?,
@@ -1144,40 +1192,52 @@ pub fn solve(
                 ctx.is_laminar(g),
             ));
         }
-        let mut biggest: f64 = 0.0;
-        for g in 0..n {
-            let d = nalgebra::Vector3::new(delta[3 * g], delta[3 * g + 1], delta[3 * g + 2]);
-            let su = scaled_update(
-                state.theta[g],
-                state.mass_defect[g],
-                state.third[g],
-                d,
-                rlx,
-                ctx.is_laminar(g),
-            );
-            if std::env::var("FS_DEBUG").is_ok() && su > 0.03 {
-                eprintln!("   big update st {g} {:?} su {su:.3} th {:.3e} m {:.3e} c {:.3e} d {:.2e} {:.2e} {:.2e}", ctx.roles[g].equation, state.theta[g], state.mass_defect[g], state.third[g], d[0], d[1], d[2]);
+        // Damped Newton with backtracking: the limited step is accepted when the state stays
+        // finite and the residual does not grow by more than half; otherwise it is cut to 30 %
+        // (up to six times).
+        let old_norm = rhs.norm();
+        let mut step = rlx;
+        let mut accepted = None;
+        let mut fallback = None;
+        for _ in 0..6 {
+            let mut trial = state.clone();
+            let mut biggest: f64 = 0.0;
+            for g in 0..n {
+                let d = nalgebra::Vector3::new(delta[3 * g], delta[3 * g + 1], delta[3 * g + 2]);
+                let laminar = ctx.is_laminar(g);
+                biggest = biggest.max(scaled_update(
+                    trial.theta[g],
+                    trial.mass_defect[g],
+                    trial.third[g],
+                    d,
+                    step,
+                    laminar,
+                ));
+                trial.theta[g] += step * d[0];
+                trial.mass_defect[g] += step * d[1];
+                trial.third[g] += step * d[2];
+                enforce_bounds(&mut trial, g, ue[g], laminar);
             }
-            biggest = biggest.max(su);
-            state.theta[g] += rlx * d[0];
-            state.mass_defect[g] += rlx * d[1];
-            state.third[g] += rlx * d[2];
-            enforce_bounds(
-                &mut state,
-                g,
-                ue[g],
-                ctx.is_laminar(g),
-            );
-            if !(state.theta[g].is_finite()
-                && state.mass_defect[g].is_finite()
-                && state.third[g].is_finite())
-            {
-                return Err(InteractionError::NonFinite {
-                    station: g,
-                    iteration,
-                });
+            let norm = residual_norm(layout, coupling, settings, &trial);
+            if norm.is_finite() && norm <= 1.5 * old_norm + 1e-10 {
+                accepted = Some((trial, biggest));
+                break;
             }
+            if norm.is_finite() {
+                // Keep the smallest finite step: a temporary rise of the residual is allowed
+                // rather than stopping (the limits above already bound the change).
+                fallback = Some((trial, biggest));
+            }
+            step *= 0.3;
         }
+        let Some((trial, biggest)) = accepted.or(fallback) else {
+            return Err(InteractionError::NonFinite {
+                station: 0,
+                iteration,
+            });
+        };
+        state = trial;
+        let rlx = step;
         update_history.push(biggest);
         if std::env::var("FS_DEBUG").is_ok() {
             eprintln!(

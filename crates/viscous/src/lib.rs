@@ -304,9 +304,36 @@ fn solve_alpha(
     settings: &ViscousSettings,
     warm: Option<&WarmStart>,
 ) -> Result<PointResult, ViscousError> {
+    // A warm start is tried first; if it does not converge the point starts afresh from the
+    // initial march, and the better of the two is returned (a converged one, else the one with
+    // the smaller final residual, flagged).
+    let warm_result = warm.map(|w| attempt_alpha(solver, point, alpha_deg, settings, Some(w)));
+    if let Some(Ok(r)) = &warm_result {
+        if r.status == PointStatus::Converged {
+            return warm_result.expect("checked above");
+        }
+    }
+    let cold = attempt_alpha(solver, point, alpha_deg, settings, None);
+    match (warm_result, cold) {
+        (_, Ok(c)) if c.status == PointStatus::Converged => Ok(c),
+        (Some(Ok(w)), Ok(c)) => Ok(if w.residual <= c.residual { w } else { c }),
+        (Some(Ok(w)), Err(_)) => Ok(w),
+        (_, cold) => cold,
+    }
+}
+
+fn attempt_alpha(
+    solver: &PanelSolver,
+    point: &OperatingPoint,
+    alpha_deg: f64,
+    settings: &ViscousSettings,
+    warm: Option<&WarmStart>,
+) -> Result<PointResult, ViscousError> {
     let alpha = alpha_deg.to_radians();
     let inviscid = solver.solve(alpha);
-    let wake = solver.wake_line(alpha, settings.wake_stations, settings.wake_length);
+    let wake = solver
+        .try_wake_line(alpha, settings.wake_stations, settings.wake_length)
+        .map_err(|e| ViscousError::Setup(e.to_string()))?;
     let wake_speed = solver.wake_speed(alpha, &wake);
     let influence = solver.source_influence(&wake);
     // With a warm start the stagnation point is placed where the neighbour's displacement
@@ -317,8 +344,9 @@ fn solve_alpha(
             .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect),
         None => inviscid.gamma.clone(),
     };
-    let mut topo =
-        Topology::new(solver, &gamma_start, &wake, point).map_err(ViscousError::Setup)?;
+    let mut topo = Topology::new(solver, &gamma_start, &wake, point)
+        .or_else(|_| Topology::new(solver, &inviscid.gamma, &wake, point))
+        .map_err(ViscousError::Setup)?;
     let ib_settings = InteractionSettings {
         equations: EquationSettings {
             reynolds: point.reynolds,
@@ -329,9 +357,6 @@ fn solve_alpha(
         tolerance: settings.tolerance,
     };
     let mut state = warm.map(|w| topo.remap(&w.topology, &w.state));
-    if std::env::var("FS_DEBUG").is_ok() {
-        eprintln!("topo {:?} warm {:?} state ft {:?}", topo.stagnation(), warm.map(|w| (w.topology.stagnation(), w.state.first_turbulent.clone())), state.as_ref().map(|s| s.first_turbulent.clone()));
-    }
     let mut iterations = 0;
     let mut relocations = 0;
     loop {
@@ -344,37 +369,31 @@ fn solve_alpha(
         let solution = interaction::solve(&topo.layout, &coupling, &ib_settings, state.take())
             .map_err(|source| ViscousError::Solve { alpha_deg, source })?;
         iterations += solution.convergence.iterations;
-        // Viscous surface speed γ at the nodes and the stagnation point it implies.
-        let gamma = topo.viscous_gamma(&inviscid.gamma, &influence.matrix, &solution.state.mass_defect);
-        let moved = topo.relocated(solver, &gamma, &wake, point).map_err(ViscousError::Setup)?;
+        // Viscous surface speed γ at the nodes and the stagnation point it implies; the
+        // stagnation point is moved (and the layer re-solved) only from a converged state.
+        let gamma =
+            topo.viscous_gamma(&inviscid.gamma, &influence.matrix, &solution.state.mass_defect);
         let converged = solution.convergence.termination == Termination::Converged;
-        match moved {
-            Some(new_topo) if relocations < settings.max_relocations => {
-                relocations += 1;
-                if std::env::var("FS_DEBUG").is_ok() {
-                    eprintln!("relocate {:?} -> {:?} (converged {converged})", topo.stagnation(), new_topo.stagnation());
-                }
-                state = Some(new_topo.remap(&topo, &solution.state));
-                topo = new_topo;
-                continue;
-            }
-            _ => {}
+        let moved = if converged {
+            topo.relocated(&gamma, &wake, point)
+                .map_err(ViscousError::Setup)?
+        } else {
+            None
+        };
+        if let Some(new_topo) = moved.as_ref().filter(|_| relocations < settings.max_relocations)
+        {
+            relocations += 1;
+            state = Some(new_topo.remap(&topo, &solution.state));
+            topo = new_topo.clone();
+            continue;
         }
-        let status = if converged && (moved.is_none()) {
+        let status = if converged && moved.is_none() {
             PointStatus::Converged
         } else {
             PointStatus::NotConverged
         };
         return Ok(topology::post_process(
-            solver,
-            &topo,
-            &inviscid,
-            alpha_deg,
-            point,
-            &gamma,
-            solution,
-            status,
-            iterations,
+            &topo, &inviscid, alpha_deg, point, &gamma, solution, status, iterations,
         ));
     }
 }

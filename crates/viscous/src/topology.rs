@@ -312,7 +312,6 @@ impl Topology {
     /// (another panel, or more than 2 % of the panel away).
     pub fn relocated(
         &self,
-        _solver: &PanelSolver,
         gamma: &[f64],
         wake: &WakeLine,
         point: &OperatingPoint,
@@ -428,7 +427,6 @@ fn integrate_pressure(nodes: &[Point2<f64>], cp: &[f64], alpha: f64) -> (f64, f6
 
 #[allow(clippy::too_many_arguments)]
 pub(crate) fn post_process(
-    _solver: &PanelSolver,
     topo: &Topology,
     inviscid: &InviscidSolution,
     alpha_deg: f64,

@@ -57,7 +57,7 @@ const CE_GUARD_WIDTH: f64 = 1e-5;
 /// (GWB 1973, from memory).
 fn dissipation_length_factor(wake: bool) -> f64 {
     if wake {
-        0.5
+        1.0
     } else {
         1.0
     }
