@@ -422,11 +422,24 @@ impl<'a> Context<'a> {
     fn residual(&self, g: usize, values: &[[f64; 4]]) -> [f64; 3] {
         let eq = &self.settings.equations;
         let deps = self.dependencies(g);
-        let pts: Vec<Point> = deps
+        let mut pts: Vec<Point> = deps
             .iter()
             .zip(values)
             .map(|(&d, v)| self.point(d, v[0], v[1], v[2], v[3]))
             .collect();
+        // The interval leaving a stagnation-start station sees that station at its similarity
+        // edge speed ue = K s (the state the start residual imposes), so the first interval
+        // stays well defined while the stagnation point is still being located (the actual ue
+        // there can be ≈ 0 or negative until the layout is relocated).
+        if let Some(p) = self.roles[g].previous {
+            if let StationEquation::Start(SurfaceStart::Stagnation { slope }) =
+                self.roles[p].equation
+            {
+                let ue = slope * pts[0].arc_length;
+                pts[0].edge_velocity = ue;
+                pts[0].mass_defect = equations::STAGNATION_SHAPE_FACTOR * pts[0].theta * ue;
+            }
+        }
         match self.roles[g].equation {
             StationEquation::Start(start) => equations::surface_start(&pts[0], start, eq),
             StationEquation::Laminar => equations::laminar_interval(&pts[0], &pts[1], eq),

@@ -7,12 +7,14 @@
 //! a NACA code) and [`alpha`] (angle lists and ranges).
 //!
 //! Exit codes: 0 success, 1 a run-time error (printed as one `error:` line on stderr), 2 a
-//! command-line usage error (clap's message). Warnings go to stderr prefixed `warning:`.
+//! command-line usage error (clap's message), 3 a sweep that finished with flagged points.
+//! Warnings go to stderr prefixed `warning:`.
 
 mod alpha;
 mod input;
 mod inviscid;
 mod section;
+mod sweep;
 
 use std::io::Write;
 use std::process::ExitCode;
@@ -33,19 +35,23 @@ enum Command {
     Section(section::Args),
     /// Inviscid panel solution (cl, cm, minimum Cp) over a list of angles of attack.
     Inviscid(inviscid::Args),
+    /// Viscous polars over Reynolds numbers and angles of attack (or target cls).
+    Sweep(sweep::Args),
 }
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
+    let mut success = ExitCode::SUCCESS;
     let result = match &cli.command {
         Command::Section(args) => section::run(args, &mut out),
         Command::Inviscid(args) => inviscid::run(args, &mut out),
+        Command::Sweep(args) => sweep::run(args, &mut out).map(|done| success = done.exit_code()),
     };
     let flushed = out.flush();
     match result.and(flushed.map_err(anyhow::Error::from)) {
-        Ok(()) => ExitCode::SUCCESS,
+        Ok(()) => success,
         Err(error) => {
             // `{:#}` joins the context chain on one line: "error: outer: inner".
             eprintln!("error: {error:#}");

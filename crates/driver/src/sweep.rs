@@ -533,3 +533,60 @@ mod tests {
         );
     }
 }
+
+#[cfg(test)]
+mod viscous_tests {
+    use super::*;
+    use foilsweep_geometry::naca::{naca_section, TrailingEdge};
+
+    /// NACA 0012 at Re 1e6, alpha -2..4 step 2, requested out of order, two Reynolds numbers
+    /// to exercise the parallel path. Kept small (8 requested points, at most 2 halvings) so
+    /// the test stays fast.
+    #[test]
+    fn naca0012_sweep_lists_every_point_once_in_requested_order() {
+        let airfoil = naca_section("naca0012", 161, TrailingEdge::Open).unwrap();
+        let alphas = vec![4.0, -2.0, 0.0, 2.0];
+        let mut request = PolarRequest::new(
+            &airfoil,
+            160,
+            vec![1.0e6, 3.0e6],
+            Targets::AlphaDeg(alphas.clone()),
+        )
+        .unwrap();
+        request.sweep.max_step_halvings = 1;
+        let reported = std::sync::atomic::AtomicUsize::new(0);
+        let count = |_: &PolarPoint| {
+            reported.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        };
+        let polar = run_polar(&request, Some(&count)).unwrap();
+        assert_eq!(reported.into_inner(), 8);
+        assert_eq!(polar.points.len(), 8);
+        let order: Vec<(f64, Option<f64>)> =
+            polar.points.iter().map(|p| (p.reynolds, p.alpha_deg)).collect();
+        let expected: Vec<(f64, Option<f64>)> = [1.0e6, 3.0e6]
+            .iter()
+            .flat_map(|&re| alphas.iter().map(move |&a| (re, Some(a))))
+            .collect();
+        assert_eq!(order, expected);
+        for point in &polar.points {
+            if point.converged {
+                assert!(point.cl.is_some_and(f64::is_finite));
+                assert!(point.cd.is_some_and(|cd| cd.is_finite() && cd > 0.0));
+            } else {
+                assert!(point.flag.is_some());
+                assert_eq!(point.cl, None);
+                assert_eq!(point.cd, None);
+            }
+        }
+        // A symmetric section has no lift at zero incidence (exact symmetry; the viscous
+        // solution is symmetric up to round-off and convergence tolerance).
+        // Likewise cl(-2 deg) = -cl(2 deg). Tolerance 1e-6: far above round-off, far below
+        // any asymmetry a wrong warm start or surface mix-up would give.
+        for block in polar.points.chunks(4) {
+            if let (Some(minus), Some(zero), Some(plus)) = (block[1].cl, block[2].cl, block[3].cl) {
+                assert!(zero.abs() < 1e-6, "cl at 0 deg {zero}");
+                assert!((minus + plus).abs() < 1e-6, "cl(-2) {minus}, cl(2) {plus}");
+            }
+        }
+    }
+}
