@@ -96,29 +96,16 @@ pub struct EquationSettings {
     pub transition_entrainment_fraction: f64,
 }
 
-/// Upwinding weight of the downstream station in the interval averages: 1/2 (trapezoidal,
-/// second order) where the shape factor varies smoothly, tending to 1 (backward Euler, first
-/// order) where it jumps between the two stations. Centred averages alone let an odd-even
-/// (sawtooth) mode of H and ue go undamped where the layer is thick compared with the panels
-/// (near a trailing edge at low Reynolds number); weighting the downstream end damps it. The
-/// switch is smooth in ln((H2 − 1)/(H1 − 1)) so the residuals stay differentiable. This follows
-/// the idea of shape-factor-dependent upwinding in Drela & Giles (1987); the form and the
-/// constant 0.2 are ours.
-fn upwind_weight(h1: f64, h2: f64) -> f64 {
-    let r = ((h2 - 1.0).max(1e-6) / (h1 - 1.0).max(1e-6)).ln();
-    1.0 - 0.5 * (-(r * r) / 0.04).exp().max(1.0)
-}
-
-/// Integral of a source term X(s) over an interval, ∫ X ds = ∫ (s X) d(ln s), by a weighted
-/// rule in ln s (the form of Drela & Giles 1987): exact for the s⁻¹ behaviour of the terms near
-/// a stagnation point or leading edge, and the plain trapezoidal rule in s (weight w = 1/2)
-/// where the interval is short compared with s. `w` weights the downstream end.
-fn integrate(p1: &Point, p2: &Point, x1: f64, x2: f64, w: f64) -> f64 {
+/// Integral of a source term X(s) over an interval, ∫ X ds = ∫ (s X) d(ln s), by the
+/// trapezoidal rule in ln s (the form of Drela & Giles 1987): exact for the s⁻¹ behaviour of the
+/// terms near a stagnation point or leading edge, and the plain trapezoidal rule in s where the
+/// interval is short compared with s.
+fn integrate(p1: &Point, p2: &Point, x1: f64, x2: f64) -> f64 {
     let (s1, s2) = (p1.arc_length, p2.arc_length);
     if s1 > 0.0 && s2 > 0.0 {
-        (s2 / s1).ln() * ((1.0 - w) * s1 * x1 + w * s2 * x2)
+        (s2 / s1).ln() * 0.5 * (s1 * x1 + s2 * x2)
     } else {
-        (s2 - s1) * ((1.0 - w) * x1 + w * x2)
+        (s2 - s1) * 0.5 * (x1 + x2)
     }
 }
 
@@ -192,13 +179,12 @@ pub fn laminar_interval(p1: &Point, p2: &Point, settings: &EquationSettings) -> 
     let a = laminar_local(p1, settings);
     let b = laminar_local(p2, settings);
     let log_ue = (p2.ue() / p1.ue()).ln();
-    let w = upwind_weight(a.h, b.h);
-    let h_mean = (1.0 - w) * a.h + w * b.h;
+    let h_mean = 0.5 * (a.h + b.h);
     [
         (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
-            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta, w),
+            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta),
         (b.h_star / a.h_star).ln() + (1.0 - h_mean) * log_ue
-            - integrate(p1, p2, a.shape_source, b.shape_source, w),
+            - integrate(p1, p2, a.shape_source, b.shape_source),
         // Amplification by the upstream rate (explicit): the transition point then follows from
         // upstream laminar quantities alone, the same in every interval bookkeeping (see
         // `transition_fraction`).
@@ -218,8 +204,7 @@ pub fn turbulent_interval(
     let a = turbulent_local(p1, settings, wake);
     let b = turbulent_local(p2, settings, wake);
     let log_ue = (p2.ue() / p1.ue()).ln();
-    let w = upwind_weight(a.h, b.h);
-    let h_mean = (1.0 - w) * a.h + w * b.h;
+    let h_mean = 0.5 * (a.h + b.h);
     let scale = 0.5 * (p1.ue() * p1.theta + p2.ue() * p2.theta);
     let due_ds = if ds != 0.0 {
         (p2.ue() - p1.ue()) / ds
@@ -228,7 +213,7 @@ pub fn turbulent_interval(
     };
     [
         (p2.theta / p1.theta).ln() + (2.0 + h_mean) * log_ue
-            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta, w),
+            - integrate(p1, p2, a.cf_over_2theta, b.cf_over_2theta),
         // Difference form scaled by the mean ue·θ (> 0): stays defined where H1 ≤ 0 (H ≳ 19).
         (p2.ue() * p2.theta * b.h1 - p1.ue() * p1.theta * a.h1) / scale
             - integrate(
@@ -236,7 +221,6 @@ pub fn turbulent_interval(
                 p2,
                 p1.ue() * a.entrainment_source,
                 p2.ue() * b.entrainment_source,
-                w,
             ) / scale,
         p2.third
             - p1.third
@@ -245,7 +229,6 @@ pub fn turbulent_interval(
                 p2,
                 lag_rate_per_length(p1, settings, due_ds, wake),
                 lag_rate_per_length(p2, settings, due_ds, wake),
-                w,
             ),
     ]
 }

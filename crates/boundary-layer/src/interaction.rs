@@ -23,9 +23,7 @@
 use nalgebra::{DMatrix, DVector};
 
 use crate::closure::{lag_entrainment, laminar};
-use crate::equations::{
-    self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT,
-};
+use crate::equations::{self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT};
 use crate::state::{Event, EventKind, Regime, StationState, TransitionKind};
 
 /// Stations of one surface.
@@ -535,12 +533,10 @@ fn check_sizes(layout: &Layout, coupling: &Coupling) -> Result<(), InteractionEr
 /// How a station is solved on its own during the initial march.
 #[derive(Debug, Clone, Copy, PartialEq)]
 enum LocalMode {
-    /// Quasi-simultaneous: ue = ue_frozen + D_gg·m (Veldman 1981).
-    Interacting {
-        /// Edge speed without the station's own contribution.
-        ue_frozen: f64,
-        /// The station's own interaction coefficient D_gg.
-        d_gg: f64,
+    /// Direct: the edge speed is given.
+    Direct {
+        /// The station's edge speed.
+        ue: f64,
     },
     /// Inverse: the shape factor is prescribed and ue is an unknown (Catherall & Mangler 1966).
     Inverse {
@@ -564,7 +560,7 @@ fn solve_station(
     let own = deps.len() - 1; // the station itself is always the last dependency
     let laminar = ctx.is_laminar(g);
     let mut ue_g = match mode {
-        LocalMode::Interacting { ue_frozen, d_gg } => ue_frozen + d_gg * state.mass_defect[g],
+        LocalMode::Direct { ue } => ue,
         LocalMode::Inverse { .. } => ue_march[g].max(1e-3),
     };
     for _ in 0..50 {
@@ -582,14 +578,7 @@ fn solve_station(
         let j = &jac[own];
         // Columns: d/dθ, d/d(second unknown), d/dthird.
         let (c0, c1): ([f64; 3], [f64; 3]) = match mode {
-            LocalMode::Interacting { d_gg, .. } => (
-                [j[0][0], j[1][0], j[2][0]],
-                [
-                    j[0][1] + j[0][3] * d_gg,
-                    j[1][1] + j[1][3] * d_gg,
-                    j[2][1] + j[2][3] * d_gg,
-                ],
-            ),
+            LocalMode::Direct { .. } => ([j[0][0], j[1][0], j[2][0]], [j[0][1], j[1][1], j[2][1]]),
             LocalMode::Inverse { shape_factor } => {
                 let dm_dtheta = ue_g * shape_factor;
                 let dm_due = shape_factor * state.theta[g];
@@ -616,12 +605,11 @@ fn solve_station(
         }
         let (theta, m, third) = (state.theta[g], state.mass_defect[g], state.third[g]);
         let size = match mode {
-            LocalMode::Interacting { ue_frozen, d_gg } => {
+            LocalMode::Direct { .. } => {
                 let rlx = relaxation(theta, m, third, delta[0], delta[1], delta[2], laminar);
                 state.theta[g] = theta + rlx * delta[0];
                 state.mass_defect[g] = m + rlx * delta[1];
                 state.third[g] = third + rlx * delta[2];
-                ue_g = ue_frozen + d_gg * state.mass_defect[g];
                 enforce_bounds(state, g, ue_g, laminar);
                 scaled_update(theta, m, third, delta, rlx, laminar)
             }
@@ -654,30 +642,11 @@ fn solve_station(
     None
 }
 
-fn delta_dbg(_j: &DMatrix<f64>, _r: &DVector<f64>, _w: usize) -> f64 {
-    0.0
-}
-
-fn direct_march() -> bool {
-    std::env::var("FS_QS").is_err()
-}
-
-fn march_edge_velocity(coupling: &Coupling, state: &InteractionState, g: usize) -> f64 {
-    if direct_march() {
-        coupling.edge_velocity_inviscid[g].max(1e-3)
-    } else {
-        ue_frozen_for(coupling, state, g).max(1e-3)
-    }
-}
-
-fn ue_frozen_for(coupling: &Coupling, state: &InteractionState, d: usize) -> f64 {
-    let row = coupling.influence.row(d);
-    coupling.edge_velocity_inviscid[d]
-        + row
-            .iter()
-            .zip(state.mass_defect.iter())
-            .map(|(a, b)| a * b)
-            .sum::<f64>()
+/// Edge speed a station is marched with in the initial march: the inviscid one (the march is
+/// direct, as in the usual start of an interacting calculation; the Newton iteration then adds
+/// the displacement effect).
+fn march_edge_velocity(coupling: &Coupling, g: usize) -> f64 {
+    coupling.edge_velocity_inviscid[g].max(1e-3)
 }
 
 /// Largest allowed fraction of a Newton update at one station (limits relative changes of θ
@@ -786,19 +755,6 @@ pub fn initial_march(
     }
     for _sweep in 0..1 {
         march_sweep(layout, coupling, settings, &mut state);
-        if std::env::var("FS_DEBUG").is_ok() {
-            eprintln!("sweep residual {:.3e}", residual_norm(layout, coupling, settings, &state));
-            let ue = coupling.edge_velocity(&state.mass_defect);
-            for g in (0..n).step_by(6) {
-                eprintln!(
-                    "sweep g {g} th {:.3e} H {:.3} c {:.3} ue {:.4}",
-                    state.theta[g],
-                    state.mass_defect[g] / (ue[g] * state.theta[g]),
-                    state.third[g],
-                    ue[g]
-                );
-            }
-        }
     }
     for g in 0..n {
         if !(state.theta[g].is_finite()
@@ -814,17 +770,20 @@ pub fn initial_march(
     Ok(state)
 }
 
-/// Largest laminar and turbulent shape factors accepted from a quasi-simultaneous station solve
-/// in the initial march; beyond them the station is solved in inverse mode with a prescribed H.
+/// Largest laminar and turbulent shape factors accepted from a direct station solve in the
+/// initial march (near laminar and turbulent separation); beyond them the station is solved in
+/// inverse mode with a prescribed H. Common practice, no source.
 const MARCH_MAX_SHAPE_FACTOR: [f64; 2] = [3.8, 2.5];
 /// Largest shape factors the inverse-mode march prescribes (laminar, turbulent).
 const MARCH_INVERSE_MAX_SHAPE_FACTOR: [f64; 2] = [8.0, 2.5];
 
 /// One sweep over all stations in downstream order (surfaces, then wake), locating transition
-/// on the way. Each station is solved quasi-simultaneously; where that fails or gives an
-/// implausible state it is solved in inverse mode with a shape factor continued from upstream
-/// (laminar: slowly rising; turbulent: relaxing towards reattachment), the usual way of starting
-/// an interacting calculation through separation.
+/// on the way. Each station is solved in direct mode on the inviscid edge speed; where that
+/// fails or gives a shape factor beyond the separation level it is solved in inverse mode with
+/// a prescribed shape factor continued from upstream (laminar: slowly rising; turbulent:
+/// relaxing towards the separation level), the usual way of starting an interacting calculation
+/// through separation (Catherall & Mangler 1966 for the inverse mode). The result is a starting
+/// state only: its edge speeds are not yet consistent with the interaction law.
 fn march_sweep(
     layout: &Layout,
     coupling: &Coupling,
@@ -838,18 +797,10 @@ fn march_sweep(
         state.first_turbulent[k] = None;
         for i in 0..surf.arc_length.len() {
             let g = off + i;
-            ue_march[g] = march_edge_velocity(coupling, state, g);
+            ue_march[g] = march_edge_velocity(coupling, g);
             if i > 0 {
-                // Downstream stations not marched yet carry the previous station's δ* (flat
-                // extrapolation), so that the frozen neighbours seen through the interaction
-                // law do not impose a spurious jump of the mass defect just downstream.
+                // Start from the previous station's state.
                 let p = g - 1;
-                let dstar_p = state.mass_defect[p] / ue_march[p].max(1e-3);
-                for j in g..off + surf.arc_length.len() {
-                    let ue_j = coupling.edge_velocity_inviscid[j].abs().max(0.05);
-                    state.mass_defect[j] = dstar_p * ue_j;
-                    state.theta[j] = state.theta[p];
-                }
                 let h = (state.mass_defect[p] / (ue_march[p] * state.theta[p])).clamp(1.2, 10.0);
                 state.theta[g] = state.theta[p];
                 state.mass_defect[g] = h * state.theta[g] * ue_march[g];
@@ -870,14 +821,14 @@ fn march_sweep(
                     }
                 }
             }
-            solve_in_place(layout, coupling, settings, state, &mut ue_march, g);
+            solve_in_place(layout, settings, state, &mut ue_march, g);
             // A laminar station whose N passed N_crit turns its interval into a transition one.
             if i > 0 && state.first_turbulent[k].is_none() && state.third[g] >= eq.critical_n {
                 state.first_turbulent[k] = Some(i);
                 let ctx = Context::new(layout, settings, state);
                 let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue_march[g]);
                 state.third[g] = equations::starting_entrainment(&p2, eq);
-                solve_in_place(layout, coupling, settings, state, &mut ue_march, g);
+                solve_in_place(layout, settings, state, &mut ue_march, g);
             }
         }
     }
@@ -885,23 +836,22 @@ fn march_sweep(
         let off = layout.offset(2);
         for i in 0..w.arc_length.len() {
             let g = off + i;
-            ue_march[g] = march_edge_velocity(coupling, state, g);
+            ue_march[g] = march_edge_velocity(coupling, g);
             if i > 0 {
                 state.theta[g] = state.theta[g - 1];
                 state.mass_defect[g] = state.mass_defect[g - 1] * ue_march[g] / ue_march[g - 1];
                 state.third[g] = state.third[g - 1];
             }
-            solve_in_place(layout, coupling, settings, state, &mut ue_march, g);
+            solve_in_place(layout, settings, state, &mut ue_march, g);
         }
     }
 }
 
-/// Solves station `g` for the march: quasi-simultaneously first, in inverse mode when that
-/// fails or leaves the plausible range; keeps a finite state whatever happens (the global
-/// Newton iteration corrects it).
+/// Solves station `g` for the march: directly first, in inverse mode when that fails or leaves
+/// the plausible range; keeps a finite state whatever happens (the global Newton iteration
+/// corrects it).
 fn solve_in_place(
     layout: &Layout,
-    coupling: &Coupling,
     settings: &InteractionSettings,
     state: &mut InteractionState,
     ue_march: &mut [f64],
@@ -910,19 +860,7 @@ fn solve_in_place(
     let saved = (state.theta[g], state.mass_defect[g], state.third[g]);
     let ctx = Context::new(layout, settings, state);
     let laminar = ctx.is_laminar(g);
-    // The local interaction coefficient only regularises the station solve when it has the
-    // physical sign (thickening raises ue); where it does not (at a blunt or cusped trailing edge
-    // the panel influence can flip it) the station is solved in direct mode.
-    //
-    // Where D_gg·δ* > 0.5 (panels shorter than the layer is thick: fine trailing-edge panels
-    // and the near wake at low Re) the station's own displacement would dominate its edge speed
-    // and the local problem turns near-singular; such stations are solved in direct mode too.
-    // The global Newton iteration restores the full coupling.
-    let dstar = (state.mass_defect[g] / ue_march[g].max(1e-3)).abs().max(1e-12);
-    let d_gg = coupling.influence[(g, g)].max(0.0);
-    let d_gg = if d_gg * dstar > 0.5 || direct_march() { 0.0 } else { d_gg };
-    let ue_frozen = march_edge_velocity(coupling, state, g) - d_gg * state.mass_defect[g];
-    let mode = LocalMode::Interacting { ue_frozen, d_gg };
+    let mode = LocalMode::Direct { ue: ue_march[g] };
     let h_max = MARCH_MAX_SHAPE_FACTOR[usize::from(!laminar)];
     let previous = ctx.roles[g].previous;
     let plausible = |st: &InteractionState, ue: f64| {
@@ -934,11 +872,9 @@ fn solve_in_place(
     if let Some(ue) = solve_station(&ctx, state, ue_march, g, mode) {
         if plausible(state, ue) {
             ue_march[g] = ue;
-            if std::env::var("FS_DEBUG2").is_ok() { eprintln!("march {g} qs ue {ue:.4} th {:.3e} H {:.3} c {:.3}", state.theta[g], state.mass_defect[g]/(ue*state.theta[g]), state.third[g]); }
             return;
         }
     }
-    if std::env::var("FS_DEBUG2").is_ok() { eprintln!("march {g} -> inverse (d_gg {d_gg:.3e} dstar {dstar:.3e} ue_frozen {ue_frozen:.4} th {:.3e} m {:.3e} H {:.3})", state.theta[g], state.mass_defect[g], state.mass_defect[g]/(ue_march[g]*state.theta[g])); }
     // Inverse mode with H continued from upstream.
     state.theta[g] = saved.0;
     state.mass_defect[g] = saved.1;
@@ -1171,25 +1107,6 @@ pub fn solve(
         let ctx = Context::new(layout, settings, &state);
         let (jac, rhs, ue) = assemble(&ctx, coupling, &state);
         residual_history.push(rhs.norm());
-        if std::env::var("FS_DEBUG").is_ok() {
-            let bad_r: Vec<usize> = (0..rhs.len()).filter(|&i| !rhs[i].is_finite()).collect();
-            let bad_j: Vec<(usize, usize)> = (0..jac.nrows())
-                .flat_map(|i| (0..jac.ncols()).map(move |j| (i, j)))
-                .filter(|&(i, j)| !jac[(i, j)].is_finite())
-                .take(10)
-                .collect();
-            eprintln!(
-                "assemble: bad rhs {:?} bad jac {:?}",
-                &bad_r[..bad_r.len().min(10)],
-                bad_j
-            );
-            let mut rows: Vec<usize> = (0..rhs.len()).collect();
-            rows.sort_by(|&a, &b| rhs[b].abs().total_cmp(&rhs[a].abs()));
-            for &w in rows.iter().take(6) {
-                let g = w / 3;
-                eprintln!("  row {w} (st {g} eq {}) = {:.3e}  role {:?} th {:.3e} H {:.3} c {:.3e} ue {:.4} d {:.3e}", w % 3, rhs[w], ctx.roles[g].equation, state.theta[g], state.mass_defect[g]/(ue[g]*state.theta[g]), state.third[g], ue[g], delta_dbg(&jac, &rhs, w));
-            }
-        }
         let Some(delta) = jac.lu().solve(&rhs) else {
             return Err(InteractionError::Singular { iteration });
         };
@@ -1252,13 +1169,6 @@ pub fn solve(
         state = trial;
         let rlx = step;
         update_history.push(biggest);
-        if std::env::var("FS_DEBUG").is_ok() {
-            eprintln!(
-                "newton it {iteration} |R| {:.3e} rlx {rlx:.3e} upd {biggest:.3e} ft {:?}",
-                rhs.norm(),
-                state.first_turbulent
-            );
-        }
         let settled = rlx >= 1.0 && biggest < 0.05;
         let moved = update_transition(layout, coupling, settings, &mut state, settled);
         if !moved && rlx >= 1.0 && biggest < settings.tolerance {
@@ -1549,8 +1459,15 @@ mod tests {
         let d = hilbert_interaction(&x);
         let m_ref: Vec<f64> = x.iter().map(|&x| 1.7208 * (x / re).sqrt()).collect();
         let shift = &d * DVector::from_column_slice(&m_ref);
-        let ue: Vec<f64> = x.iter().zip(shift.iter()).map(|(&x, b)| 1.0 - 0.05 * x - b).collect();
-        let coupling = Coupling { edge_velocity_inviscid: &ue, influence: &d };
+        let ue: Vec<f64> = x
+            .iter()
+            .zip(shift.iter())
+            .map(|(&x, b)| 1.0 - 0.05 * x - b)
+            .collect();
+        let coupling = Coupling {
+            edge_velocity_inviscid: &ue,
+            influence: &d,
+        };
         let settings = InteractionSettings::new(re);
         let sol = solve(&layout, &coupling, &settings, None).expect("solve");
         eprintln!("{:?}", sol.convergence);

@@ -86,9 +86,12 @@ impl OperatingPoint {
     }
 
     fn check(&self) -> Result<(), ViscousError> {
-        let bad = |what: &str, v: f64| Err(ViscousError::Input(format!("{what} {v} is out of range")));
+        let bad =
+            |what: &str, v: f64| Err(ViscousError::Input(format!("{what} {v} is out of range")));
         match self.target {
-            Target::AlphaDeg(a) if !(a.is_finite() && a.abs() <= 30.0) => return bad("alpha (deg)", a),
+            Target::AlphaDeg(a) if !(a.is_finite() && a.abs() <= 30.0) => {
+                return bad("alpha (deg)", a)
+            }
             Target::Cl(c) if !(c.is_finite() && c.abs() <= 3.0) => return bad("target cl", c),
             _ => {}
         }
@@ -101,7 +104,10 @@ impl OperatingPoint {
         if !(self.critical_n.is_finite() && self.critical_n > 0.0 && self.critical_n <= 20.0) {
             return bad("critical N-factor", self.critical_n);
         }
-        for trip in [self.trip_upper_x_over_c, self.trip_lower_x_over_c].into_iter().flatten() {
+        for trip in [self.trip_upper_x_over_c, self.trip_lower_x_over_c]
+            .into_iter()
+            .flatten()
+        {
             if !(trip.is_finite() && (0.0..=1.0).contains(&trip)) {
                 return bad("trip x/c", trip);
             }
@@ -339,9 +345,10 @@ fn attempt_alpha(
     // With a warm start the stagnation point is placed where the neighbour's displacement
     // effect puts it at this alpha (viscous γ estimate), so the mapped state fits the layout.
     let gamma_start = match warm {
-        Some(w) => w
-            .topology
-            .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect),
+        Some(w) => {
+            w.topology
+                .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect)
+        }
         None => inviscid.gamma.clone(),
     };
     let mut topo = Topology::new(solver, &gamma_start, &wake, point)
@@ -371,8 +378,11 @@ fn attempt_alpha(
         iterations += solution.convergence.iterations;
         // Viscous surface speed γ at the nodes and the stagnation point it implies; the
         // stagnation point is moved (and the layer re-solved) only from a converged state.
-        let gamma =
-            topo.viscous_gamma(&inviscid.gamma, &influence.matrix, &solution.state.mass_defect);
+        let gamma = topo.viscous_gamma(
+            &inviscid.gamma,
+            &influence.matrix,
+            &solution.state.mass_defect,
+        );
         let converged = solution.convergence.termination == Termination::Converged;
         let moved = if converged {
             topo.relocated(&gamma, &wake, point)
@@ -380,7 +390,9 @@ fn attempt_alpha(
         } else {
             None
         };
-        if let Some(new_topo) = moved.as_ref().filter(|_| relocations < settings.max_relocations)
+        if let Some(new_topo) = moved
+            .as_ref()
+            .filter(|_| relocations < settings.max_relocations)
         {
             relocations += 1;
             state = Some(new_topo.remap(&topo, &solution.state));

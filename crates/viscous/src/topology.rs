@@ -17,7 +17,7 @@ use foilsweep_boundary_layer::equations::{SurfaceStart, MIN_ENTRAINMENT};
 use foilsweep_boundary_layer::interaction::{
     InteractionSolution, InteractionState, Layout, SurfaceLayout, WakeLayout,
 };
-use foilsweep_panel::{karman_tsien_cp, critical_cp, InviscidSolution, PanelSolver, WakeLine};
+use foilsweep_panel::{critical_cp, karman_tsien_cp, InviscidSolution, PanelSolver, WakeLine};
 use nalgebra::{DMatrix, Point2};
 
 use crate::{OperatingPoint, PointResult, PointStatus, SurfaceResult, WarmStart};
@@ -82,7 +82,9 @@ fn find_stagnation(
 fn trip_arc_length(arc: &[f64], x: &[f64], trip: Option<f64>) -> Option<f64> {
     let trip = trip?;
     // Search downstream of the most forward station (the leading edge region).
-    let start = (0..x.len()).min_by(|&a, &b| x[a].total_cmp(&x[b])).unwrap_or(0);
+    let start = (0..x.len())
+        .min_by(|&a, &b| x[a].total_cmp(&x[b]))
+        .unwrap_or(0);
     if trip <= x[start] {
         return Some(arc[start].max(arc[0]));
     }
@@ -200,11 +202,6 @@ impl Topology {
         })
     }
 
-    /// Stagnation panel and fraction (diagnostics).
-    pub fn stagnation(&self) -> (usize, f64) {
-        (self.stagnation_panel, self.stagnation_fraction)
-    }
-
     fn n_upper(&self) -> usize {
         self.stagnation_panel + 1
     }
@@ -294,7 +291,12 @@ impl Topology {
     }
 
     /// Surface speed γ at the panel nodes including the displacement effect.
-    pub fn viscous_gamma(&self, gamma_inviscid: &[f64], source_influence: &DMatrix<f64>, mass_defect: &[f64]) -> Vec<f64> {
+    pub fn viscous_gamma(
+        &self,
+        gamma_inviscid: &[f64],
+        source_influence: &DMatrix<f64>,
+        mass_defect: &[f64],
+    ) -> Vec<f64> {
         let sigma = self.sources(mass_defect);
         (0..self.surface_nodes)
             .map(|i| {
@@ -316,8 +318,7 @@ impl Topology {
         wake: &WakeLine,
         point: &OperatingPoint,
     ) -> Result<Option<Self>, String> {
-        let (ist, frac, slope) =
-            find_stagnation(gamma, &self.nodes, Some(self.stagnation_panel))?;
+        let (ist, frac, slope) = find_stagnation(gamma, &self.nodes, Some(self.stagnation_panel))?;
         // Compare positions along the contour (panel index + fraction), so that a stagnation
         // point sitting on a node is the same whichever of its two panels reports it.
         let here = self.stagnation_panel as f64 + self.stagnation_fraction;
@@ -349,18 +350,32 @@ impl Topology {
             let (no, oo) = (self.layout.offset(k), old.layout.offset(k));
             let old_first = state.first_turbulent[k];
             let s_transition = old_first.map(|t| old_s[t - 1]);
-            let first = s_transition.and_then(|st| new_s.iter().position(|&s| s > st)).map(|i| i.max(1));
+            let first = s_transition
+                .and_then(|st| new_s.iter().position(|&s| s > st))
+                .map(|i| i.max(1));
             out.first_turbulent[k] = first;
-            let laminar_old: Vec<usize> = (0..old_s.len()).filter(|&i| old_first.is_none_or(|t| i < t)).collect();
-            let turbulent_old: Vec<usize> = (0..old_s.len()).filter(|&i| old_first.is_some_and(|t| i >= t)).collect();
+            let laminar_old: Vec<usize> = (0..old_s.len())
+                .filter(|&i| old_first.is_none_or(|t| i < t))
+                .collect();
+            let turbulent_old: Vec<usize> = (0..old_s.len())
+                .filter(|&i| old_first.is_some_and(|t| i >= t))
+                .collect();
             for (i, &s) in new_s.iter().enumerate() {
                 let g = no + i;
                 out.theta[g] = interp(old_s, &state.theta[oo..oo + old_s.len()], s);
                 out.mass_defect[g] = interp(old_s, &state.mass_defect[oo..oo + old_s.len()], s);
                 let turbulent_new = first.is_some_and(|t| i >= t);
-                let pool = if turbulent_new { &turbulent_old } else { &laminar_old };
+                let pool = if turbulent_new {
+                    &turbulent_old
+                } else {
+                    &laminar_old
+                };
                 out.third[g] = if pool.is_empty() {
-                    if turbulent_new { 0.05 } else { 0.0 }
+                    if turbulent_new {
+                        0.05
+                    } else {
+                        0.0
+                    }
                 } else {
                     let xs: Vec<f64> = pool.iter().map(|&j| old_s[j]).collect();
                     let ys: Vec<f64> = pool.iter().map(|&j| state.third[oo + j]).collect();
