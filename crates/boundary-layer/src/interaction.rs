@@ -538,6 +538,13 @@ enum LocalMode {
         /// The station's edge speed.
         ue: f64,
     },
+    /// Quasi-simultaneous: ue = ue_frozen + D_gg·m (Veldman 1981).
+    Interacting {
+        /// Edge speed without the station's own contribution.
+        ue_frozen: f64,
+        /// The station's own interaction coefficient D_gg.
+        d_gg: f64,
+    },
     /// Inverse: the shape factor is prescribed and ue is an unknown (Catherall & Mangler 1966).
     Inverse {
         /// Prescribed shape factor.
@@ -561,6 +568,7 @@ fn solve_station(
     let laminar = ctx.is_laminar(g);
     let mut ue_g = match mode {
         LocalMode::Direct { ue } => ue,
+        LocalMode::Interacting { ue_frozen, d_gg } => ue_frozen + d_gg * state.mass_defect[g],
         LocalMode::Inverse { .. } => ue_march[g].max(1e-3),
     };
     for _ in 0..50 {
@@ -579,6 +587,14 @@ fn solve_station(
         // Columns: d/dθ, d/d(second unknown), d/dthird.
         let (c0, c1): ([f64; 3], [f64; 3]) = match mode {
             LocalMode::Direct { .. } => ([j[0][0], j[1][0], j[2][0]], [j[0][1], j[1][1], j[2][1]]),
+            LocalMode::Interacting { d_gg, .. } => (
+                [j[0][0], j[1][0], j[2][0]],
+                [
+                    j[0][1] + j[0][3] * d_gg,
+                    j[1][1] + j[1][3] * d_gg,
+                    j[2][1] + j[2][3] * d_gg,
+                ],
+            ),
             LocalMode::Inverse { shape_factor } => {
                 let dm_dtheta = ue_g * shape_factor;
                 let dm_due = shape_factor * state.theta[g];
@@ -605,11 +621,14 @@ fn solve_station(
         }
         let (theta, m, third) = (state.theta[g], state.mass_defect[g], state.third[g]);
         let size = match mode {
-            LocalMode::Direct { .. } => {
+            LocalMode::Direct { .. } | LocalMode::Interacting { .. } => {
                 let rlx = relaxation(theta, m, third, delta[0], delta[1], delta[2], laminar);
                 state.theta[g] = theta + rlx * delta[0];
                 state.mass_defect[g] = m + rlx * delta[1];
                 state.third[g] = third + rlx * delta[2];
+                if let LocalMode::Interacting { ue_frozen, d_gg } = mode {
+                    ue_g = ue_frozen + d_gg * state.mass_defect[g];
+                }
                 enforce_bounds(state, g, ue_g, laminar);
                 scaled_update(theta, m, third, delta, rlx, laminar)
             }
@@ -642,11 +661,41 @@ fn solve_station(
     None
 }
 
-/// Edge speed a station is marched with in the initial march: the inviscid one (the march is
-/// direct, as in the usual start of an interacting calculation; the Newton iteration then adds
-/// the displacement effect).
-fn march_edge_velocity(coupling: &Coupling, g: usize) -> f64 {
-    coupling.edge_velocity_inviscid[g].max(1e-3)
+/// How the initial march treats the interaction.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum InitialMarch {
+    /// Each station on its inviscid edge speed (inverse mode where it separates), as in the
+    /// usual start of an interacting airfoil calculation; the Newton iteration then adds the
+    /// displacement effect.
+    Direct,
+    /// Each station with its own interaction coefficient implicit and the other mass defects
+    /// frozen (Veldman 1981); better where the interaction law is local, e.g. a plate with the
+    /// Hilbert law.
+    QuasiSimultaneous,
+}
+
+/// Edge speed of station `g` from the interaction law with the current mass defects.
+fn interacting_edge_velocity(coupling: &Coupling, state: &InteractionState, g: usize) -> f64 {
+    let row = coupling.influence.row(g);
+    coupling.edge_velocity_inviscid[g]
+        + row
+            .iter()
+            .zip(state.mass_defect.iter())
+            .map(|(a, b)| a * b)
+            .sum::<f64>()
+}
+
+/// Edge speed a station starts from in the initial march.
+fn march_edge_velocity(
+    coupling: &Coupling,
+    state: &InteractionState,
+    g: usize,
+    kind: InitialMarch,
+) -> f64 {
+    match kind {
+        InitialMarch::Direct => coupling.edge_velocity_inviscid[g].max(1e-3),
+        InitialMarch::QuasiSimultaneous => interacting_edge_velocity(coupling, state, g).max(1e-3),
+    }
 }
 
 /// Largest allowed fraction of a Newton update at one station (limits relative changes of θ
@@ -720,6 +769,7 @@ pub fn initial_march(
     layout: &Layout,
     coupling: &Coupling,
     settings: &InteractionSettings,
+    kind: InitialMarch,
 ) -> Result<InteractionState, InteractionError> {
     layout.check()?;
     check_sizes(layout, coupling)?;
@@ -753,9 +803,7 @@ pub fn initial_march(
             state.third[g] = 0.03;
         }
     }
-    for _sweep in 0..1 {
-        march_sweep(layout, coupling, settings, &mut state);
-    }
+    march_sweep(layout, coupling, settings, &mut state, kind);
     for g in 0..n {
         if !(state.theta[g].is_finite()
             && state.mass_defect[g].is_finite()
@@ -789,6 +837,7 @@ fn march_sweep(
     coupling: &Coupling,
     settings: &InteractionSettings,
     state: &mut InteractionState,
+    kind: InitialMarch,
 ) {
     let eq = &settings.equations;
     let mut ue_march = coupling.edge_velocity(&state.mass_defect);
@@ -797,7 +846,7 @@ fn march_sweep(
         state.first_turbulent[k] = None;
         for i in 0..surf.arc_length.len() {
             let g = off + i;
-            ue_march[g] = march_edge_velocity(coupling, g);
+            ue_march[g] = march_edge_velocity(coupling, state, g, kind);
             if i > 0 {
                 // Start from the previous station's state.
                 let p = g - 1;
@@ -821,14 +870,14 @@ fn march_sweep(
                     }
                 }
             }
-            solve_in_place(layout, settings, state, &mut ue_march, g);
+            solve_in_place(layout, coupling, settings, state, &mut ue_march, g, kind);
             // A laminar station whose N passed N_crit turns its interval into a transition one.
             if i > 0 && state.first_turbulent[k].is_none() && state.third[g] >= eq.critical_n {
                 state.first_turbulent[k] = Some(i);
                 let ctx = Context::new(layout, settings, state);
                 let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue_march[g]);
                 state.third[g] = equations::starting_entrainment(&p2, eq);
-                solve_in_place(layout, settings, state, &mut ue_march, g);
+                solve_in_place(layout, coupling, settings, state, &mut ue_march, g, kind);
             }
         }
     }
@@ -836,13 +885,13 @@ fn march_sweep(
         let off = layout.offset(2);
         for i in 0..w.arc_length.len() {
             let g = off + i;
-            ue_march[g] = march_edge_velocity(coupling, g);
+            ue_march[g] = march_edge_velocity(coupling, state, g, kind);
             if i > 0 {
                 state.theta[g] = state.theta[g - 1];
                 state.mass_defect[g] = state.mass_defect[g - 1] * ue_march[g] / ue_march[g - 1];
                 state.third[g] = state.third[g - 1];
             }
-            solve_in_place(layout, settings, state, &mut ue_march, g);
+            solve_in_place(layout, coupling, settings, state, &mut ue_march, g, kind);
         }
     }
 }
@@ -852,15 +901,34 @@ fn march_sweep(
 /// corrects it).
 fn solve_in_place(
     layout: &Layout,
+    coupling: &Coupling,
     settings: &InteractionSettings,
     state: &mut InteractionState,
     ue_march: &mut [f64],
     g: usize,
+    kind: InitialMarch,
 ) {
     let saved = (state.theta[g], state.mass_defect[g], state.third[g]);
     let ctx = Context::new(layout, settings, state);
     let laminar = ctx.is_laminar(g);
-    let mode = LocalMode::Direct { ue: ue_march[g] };
+    let mode = match kind {
+        InitialMarch::Direct => LocalMode::Direct { ue: ue_march[g] },
+        InitialMarch::QuasiSimultaneous => {
+            // The local coefficient only regularises the station solve when it has the
+            // physical sign (thickening raises ue) and when the station's own displacement
+            // does not dominate its edge speed (D_gg·δ* < 0.5; panels shorter than the layer
+            // is thick, near a trailing edge at low Re); otherwise the station is solved
+            // directly on its frozen edge speed.
+            let dstar = (state.mass_defect[g] / ue_march[g]).abs();
+            let d_gg = coupling.influence[(g, g)].max(0.0);
+            let d_gg = if d_gg * dstar > 0.5 { 0.0 } else { d_gg };
+            LocalMode::Interacting {
+                ue_frozen: interacting_edge_velocity(coupling, state, g)
+                    - d_gg * state.mass_defect[g],
+                d_gg,
+            }
+        }
+    };
     let h_max = MARCH_MAX_SHAPE_FACTOR[usize::from(!laminar)];
     let previous = ctx.roles[g].previous;
     let plausible = |st: &InteractionState, ue: f64| {
@@ -948,13 +1016,16 @@ pub fn residuals(
 /// Hysteresis of the transition bookkeeping: the transition interval is kept while the
 /// (smoothly continued) transition fraction stays within [−margin, 1 + margin].
 const TRANSITION_MARGIN: f64 = 0.1;
+/// Largest move of the transition interval (stations) per Newton iteration while the iterate is
+/// still far from converged.
+const MAX_TRANSITION_STEP: usize = 1;
 
 /// Re-locates the transition interval of every surface for the current state; stations that
 /// change regime get their third variable re-initialised (C_E from its starting value, N by an
 /// explicit trapezoidal march of the envelope rate). Returns true if anything changed.
 ///
-/// While the iterate is far from converged (`settled` false) the interval moves by at most one
-/// station per iteration, since the laminar N values are still poor; once settled it jumps to
+/// While the iterate is far from converged (`settled` false) the interval moves by at most
+/// [`MAX_TRANSITION_STEP`] stations per iteration, since the laminar N values are still poor; once settled it jumps to
 /// where the N march puts it. Inside its interval the transition point moves continuously
 /// through the residual itself ([`equations::transition_fraction`]), and the hysteresis margin
 /// keeps the bookkeeping from cycling between two neighbouring intervals.
@@ -985,8 +1056,11 @@ fn update_transition(
             .fraction;
             // Far from convergence only a saturated fraction (the root is beyond the smooth
             // continuation) moves the interval; near convergence the hysteresis margin decides.
+            // An upstream laminar station already past N_crit means transition lies further
+            // upstream whatever the extrapolated fraction says.
             let margin = if settled { TRANSITION_MARGIN } else { 0.49 };
-            if (-margin..=1.0 + margin).contains(&f) {
+            let upstream_critical = t >= 2 && state.third[off + t - 2] >= eq.critical_n;
+            if (-margin..=1.0 + margin).contains(&f) && !upstream_critical {
                 continue;
             }
         }
@@ -1017,9 +1091,9 @@ fn update_transition(
             target
         } else {
             match (old, target) {
-                (Some(o), Some(t)) if t > o + 1 => Some(o + 1),
-                (Some(o), Some(t)) if t + 1 < o => Some(o - 1),
-                (Some(o), None) => (o + 1 < n).then_some(o + 1),
+                (Some(o), Some(t)) if t > o + MAX_TRANSITION_STEP => Some(o + MAX_TRANSITION_STEP),
+                (Some(o), Some(t)) if t + MAX_TRANSITION_STEP < o => Some(o - MAX_TRANSITION_STEP),
+                (Some(o), None) => (o + MAX_TRANSITION_STEP < n).then_some(o + MAX_TRANSITION_STEP),
                 (None, Some(_)) => old,
                 (_, t) => t,
             }
@@ -1079,7 +1153,8 @@ fn assemble(
     (jac, rhs, ue)
 }
 
-/// Runs the global Newton iteration from `initial` (or from [`initial_march`] when `None`).
+/// Runs the global Newton iteration from `initial` (a warm start), or, when `None`, from the
+/// direct [`initial_march`] and, if that does not converge, from the quasi-simultaneous one.
 pub fn solve(
     layout: &Layout,
     coupling: &Coupling,
@@ -1088,15 +1163,46 @@ pub fn solve(
 ) -> Result<InteractionSolution, InteractionError> {
     layout.check()?;
     check_sizes(layout, coupling)?;
-    let mut state = match initial {
+    match initial {
         Some(s)
             if s.theta.len() == layout.len()
                 && s.first_turbulent.len() == layout.surfaces.len() =>
         {
-            s
+            newton(layout, coupling, settings, s)
         }
-        _ => initial_march(layout, coupling, settings)?,
-    };
+        _ => {
+            // From the direct march first; if that does not converge, from the
+            // quasi-simultaneous one; the better result is kept.
+            let direct = initial_march(layout, coupling, settings, InitialMarch::Direct)
+                .and_then(|s| newton(layout, coupling, settings, s));
+            if matches!(&direct, Ok(d) if d.convergence.termination == Termination::Converged) {
+                return direct;
+            }
+            let quasi = initial_march(layout, coupling, settings, InitialMarch::QuasiSimultaneous)
+                .and_then(|s| newton(layout, coupling, settings, s));
+            match (direct, quasi) {
+                (_, Ok(q)) if q.convergence.termination == Termination::Converged => Ok(q),
+                (Ok(d), Ok(q)) => Ok(
+                    if d.convergence.final_residual() <= q.convergence.final_residual() {
+                        d
+                    } else {
+                        q
+                    },
+                ),
+                (Ok(d), Err(_)) => Ok(d),
+                (Err(_), quasi) => quasi,
+            }
+        }
+    }
+}
+
+/// The global Newton iteration from a starting state.
+fn newton(
+    layout: &Layout,
+    coupling: &Coupling,
+    settings: &InteractionSettings,
+    mut state: InteractionState,
+) -> Result<InteractionSolution, InteractionError> {
     let n = layout.len();
     let mut update_history = Vec::new();
     let mut residual_history = Vec::new();
@@ -1498,7 +1604,12 @@ mod tests {
             edge_velocity_inviscid: &ue,
             influence: &d,
         };
-        let settings = InteractionSettings::new(re);
+        // The transition point has to travel a long way from where the initial march puts it
+        // (one station per iteration while far from convergence), hence the larger limit.
+        let settings = InteractionSettings {
+            max_iterations: 200,
+            ..InteractionSettings::new(re)
+        };
         let sol = solve(&layout, &coupling, &settings, None).expect("solve");
         assert_eq!(sol.convergence.termination, Termination::Converged);
         // Events in the order of a laminar separation bubble: S < T < R.
