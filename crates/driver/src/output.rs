@@ -62,9 +62,11 @@ pub struct PolarSettings {
     pub max_relocations: usize,
     /// Entrainment coefficient at transition as a fraction of its equilibrium value.
     pub transition_entrainment_fraction: f64,
+    /// True when a failed warm-started point was also retried cold by the sweep.
+    pub retry_cold: bool,
     /// Step halvings allowed when approaching a failed point from its neighbour.
     pub max_step_halvings: u32,
-    /// Consecutive failures after which a marching direction stops (0 = never).
+    /// Consecutive failures past stall after which a marching direction stops (0 = never).
     pub give_up_after_failures: usize,
 }
 
@@ -114,12 +116,9 @@ impl SurfaceEvents {
             transition_x_over_c: transition,
             transition_forced: transition.map(|_| forced),
             laminar_separation_x_over_c: laminar_separation.map(|(_, x)| x),
-            reattachment_x_over_c: first(|k| matches!(k, EventKind::Reattachment))
+            reattachment_x_over_c: first(|k| matches!(k, EventKind::Reattachment)).map(|(_, x)| x),
+            turbulent_separation_x_over_c: first(|k| matches!(k, EventKind::TurbulentSeparation))
                 .map(|(_, x)| x),
-            turbulent_separation_x_over_c: first(|k| {
-                matches!(k, EventKind::TurbulentSeparation)
-            })
-            .map(|(_, x)| x),
             bubble_length_x_over_c: bubble_length,
         }
     }

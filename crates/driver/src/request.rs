@@ -123,17 +123,24 @@ impl Targets {
 /// How a sweep recovers from failed points.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct SweepSettings {
+    /// Retry a failed warm-started point cold before approaching it in steps. Off by default:
+    /// `foilsweep_viscous::solve_point` already falls back to a cold start when a warm start
+    /// fails, so the retry would repeat the same deterministic solve; set it for a solver that
+    /// does not.
+    pub retry_cold: bool,
     /// How many times the step from the last converged neighbour may be halved when a failed
     /// point is approached in smaller steps (0 disables the stepped approach).
     pub max_step_halvings: u32,
-    /// After this many consecutive failed points in one marching direction the remaining
-    /// targets in that direction are not attempted (0 = never stop).
+    /// After this many consecutive failed points in one marching direction past stall (lift
+    /// slope below half of 2π per radian, see the sweep) the remaining targets in that
+    /// direction are not attempted (0 = never stop). Failures before stall never stop a march.
     pub give_up_after_failures: usize,
 }
 
 impl Default for SweepSettings {
     fn default() -> Self {
         Self {
+            retry_cold: false,
             max_step_halvings: 3,
             give_up_after_failures: 2,
         }

@@ -208,9 +208,6 @@ mod tests {
         let last: Vec<&str> = lines[4].split(',').collect();
         assert_eq!(last[0], "6");
         assert_eq!(last[1], "");
-        assert_eq!(
-            last[2].parse::<f64>().unwrap(),
-            polar.points[7].cd.unwrap()
-        );
+        assert_eq!(last[2].parse::<f64>().unwrap(), polar.points[7].cd.unwrap());
     }
 }

@@ -123,7 +123,9 @@ pub fn write_all(dir: &Path, stem: &str, polar: &Polar) -> Result<Vec<PathBuf>, 
         written.push(path);
         Ok(())
     };
-    emit(format!("{stem}_polar.csv"), &|out| write_long_csv(out, polar))?;
+    emit(format!("{stem}_polar.csv"), &|out| {
+        write_long_csv(out, polar)
+    })?;
     emit(format!("{stem}_polar.json"), &|out| write_json(out, polar))?;
     for quantity in grid_quantities(polar) {
         emit(format!("{stem}_grid_{}.csv", quantity.name()), &|out| {
@@ -247,6 +249,7 @@ pub(crate) mod test_support {
                 tolerance: 1e-6,
                 max_relocations: 10,
                 transition_entrainment_fraction: 0.5,
+                retry_cold: false,
                 max_step_halvings: 3,
                 give_up_after_failures: 2,
             },

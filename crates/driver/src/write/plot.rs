@@ -187,7 +187,10 @@ fn draw(polar: &Polar, kind: PlotKind, svg: &mut String) -> Result<(), String> {
         let colour = Palette99::pick(curve.colour).to_rgba();
         for segment in &curve.segments {
             chart
-                .draw_series(LineSeries::new(segment.iter().copied(), colour.stroke_width(2)))
+                .draw_series(LineSeries::new(
+                    segment.iter().copied(),
+                    colour.stroke_width(2),
+                ))
                 .map_err(error)?;
         }
         let markers = curve.segments.iter().flatten().copied();
@@ -199,7 +202,9 @@ fn draw(polar: &Polar, kind: PlotKind, svg: &mut String) -> Result<(), String> {
                 .draw_series(markers.map(|p| TriangleMarker::new(p, 5, colour.filled())))
                 .map_err(error)?
                 .label(curve.label.clone())
-                .legend(move |(x, y)| line(x, y) + TriangleMarker::new((10, 0), 5, colour.filled()));
+                .legend(move |(x, y)| {
+                    line(x, y) + TriangleMarker::new((10, 0), 5, colour.filled())
+                });
         } else {
             chart
                 .draw_series(markers.map(|p| Circle::new(p, 3, colour.filled())))

@@ -91,10 +91,7 @@ mod tests {
         assert!(text.contains("Reynolds number 200000\n"));
         // Header, two block titles and headers, eight point rows, two blank lines.
         assert_eq!(text.lines().count(), 2 + 2 * 3 + 8);
-        let failed = text
-            .lines()
-            .find(|l| l.contains("not converged"))
-            .unwrap();
+        let failed = text.lines().find(|l| l.contains("not converged")).unwrap();
         assert!(failed.trim_start().starts_with("6.00        -"), "{failed}");
         // cl 0.22 / cd 0.006484 at alpha 2 (the invented sample): L/D 33.9.
         assert!(text.contains("   33.9"), "{text}");
