@@ -7,7 +7,7 @@
 //! are solved by continuation — starting at the requested value nearest zero, marching upward
 //! and then downward, each point warm-started from its converged neighbour. A failed point is
 //! retried cold, then approached in smaller steps from its last converged neighbour
-//! ([`SweepSettings`]). The [`write`] module writes the polar as a long CSV, JSON, grid CSVs for
+//! ([`SweepSettings`]). The [`write`](mod@write) module writes the polar as a long CSV, JSON, grid CSVs for
 //! wing tools, SVG plots and a text table; [`progress`] shows a progress bar on a terminal.
 //!
 //! What it does not do: parse command lines, solve a single point (that is

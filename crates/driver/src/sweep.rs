@@ -774,4 +774,16 @@ mod viscous_tests {
             }
         }
     }
+
+    #[test]
+    fn a_bad_request_is_refused_before_any_solve() {
+        let airfoil = naca_section("naca0012", 81, TrailingEdge::Open).unwrap();
+        let request =
+            PolarRequest::new(&airfoil, 80, vec![50.0], Targets::AlphaDeg(vec![0.0])).unwrap();
+        let called = |_: &PolarPoint| panic!("no point may be solved");
+        assert_eq!(
+            run_polar(&request, Some(&called)).unwrap_err(),
+            RequestError::Reynolds(50.0)
+        );
+    }
 }
