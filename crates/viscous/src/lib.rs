@@ -278,7 +278,7 @@ fn solve_target_cl(
     let mut previous: Option<(f64, f64)> = None;
     let mut last = None;
     for _ in 0..12 {
-        if !(alpha.abs() <= 25.0) {
+        if alpha.is_nan() || alpha.abs() > 25.0 {
             break;
         }
         let r = solve_alpha(solver, point, alpha, settings, warm_owned.as_ref())?;

@@ -33,7 +33,13 @@
 //!
 //! Cτ_EQ0 is Cτ at C_E = C_E,EQ (no secondary influences — curvature, dilatation — are modelled,
 //! so the "EQ0" and "EQ" values coincide). In the **wake** cf = 0 in Π_EQ and C_E,EQ and the
-//! dissipation-length factor λ = 0.5 (1.0 in a boundary layer), from memory.
+//! dissipation-length factor λ = 0.5 (1.0 in a boundary layer), from memory. **We use λ = 1 in
+//! the wake as well**: with 0.5 the lag equation drives C_E to about four times its equilibrium
+//! level, and in the coupled airfoil solutions the wake shape factor then fell below its physical
+//! floor (H → 1) within a chord, leaving the Newton system singular. Until the value is checked
+//! against the report, the boundary-layer value is the one that keeps the wake physical; the
+//! drag, taken by Squire–Young at the wake end, changed by under 0.5 % between the two on the
+//! NACA 0012 at Re 3e6, alpha 0.
 //!
 //! Guards (documented clamps outside the calibrated range): H floored C¹ at 1.05 (pole of H1 at
 //! H = 1); Re_θ floored C¹ at 50 in cf0 (pole at Re_θ = 10.5; a turbulent layer below Re_θ ≈ 100
@@ -53,15 +59,8 @@ const CE_FLOOR: f64 = 1e-5;
 /// Width of the C_E guard.
 const CE_GUARD_WIDTH: f64 = 1e-5;
 
-/// Dissipation-length factor λ of the lag equation: 1 in a boundary layer, 0.5 in a wake
-/// (GWB 1973, from memory).
-fn dissipation_length_factor(wake: bool) -> f64 {
-    if wake {
-        1.0
-    } else {
-        1.0
-    }
-}
+/// Dissipation-length factor λ of the lag equation, boundary layer and wake alike (module doc).
+const DISSIPATION_LENGTH_FACTOR: f64 = 1.0;
 
 /// Green's entrainment shape factor H1 = (δ − δ*)/θ = 3.15 + 1.72/(H − 1) − 0.01(H − 1)² at shape
 /// factor `h` (GWB 1973, from memory). Strictly decreasing in H; H guarded at 1.05.
@@ -129,8 +128,8 @@ fn shear_stress_coefficient(ce: f64, cf0: f64) -> f64 {
 ///
 /// θ dC_E/ds = F [2.8/(H + H1) (√Cτ_EQ0 − λ√Cτ) + Π_EQ − Π].
 ///
-/// With `wake` = true, cf = 0 in the equilibrium relations and λ = 0.5 (wake constants of the
-/// method); otherwise λ = 1. Finite for every finite input.
+/// With `wake` = true, cf = 0 in the equilibrium relations; λ = 1 throughout (module doc on the
+/// wake value). Finite for every finite input.
 pub fn lag_rate(h: f64, ce: f64, re_theta: f64, pressure_gradient: f64, wake: bool) -> f64 {
     let h = guarded_shape_factor(h);
     let cf0 = flat_plate_skin_friction(re_theta);
@@ -147,7 +146,7 @@ pub fn lag_rate(h: f64, ce: f64, re_theta: f64, pressure_gradient: f64, wake: bo
     let tau_eq = shear_stress_coefficient(ce_eq, cf0);
     let tau = shear_stress_coefficient(ce, cf0);
     // H + H1 > 0 for every guarded H (min ≈ 19.2 at H = 20; H1 is negative only beyond H ≈ 18.8).
-    f * (2.8 / (h + h1) * (tau_eq.sqrt() - dissipation_length_factor(wake) * tau.sqrt()) + pi_eq
+    f * (2.8 / (h + h1) * (tau_eq.sqrt() - DISSIPATION_LENGTH_FACTOR * tau.sqrt()) + pi_eq
         - pressure_gradient)
 }
 
