@@ -61,8 +61,8 @@ pub fn write_table(out: &mut dyn Write, polar: &Polar) -> io::Result<()> {
         format!("{:>9}", "cd"),
         format!("{:>8}", "cm"),
         format!("{:>7}", "L/D"),
-        format!("{:>9}", "xtr_up"),
-        format!("{:>9}", "xtr_low"),
+        format!("{:>9}", "tr_upper"),
+        format!("{:>9}", "tr_lower"),
     ]);
     let header = format!("{}  flag", header.join(" "));
     for &reynolds in &polar.reynolds {
