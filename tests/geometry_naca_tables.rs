@@ -2,10 +2,11 @@
 //! von Doenhoff, *Theory of Wing Sections* (1959), Appendices I and III.
 //!
 //! The table values in `tests/data/abbott_*.csv` were recalled from memory and carry a `source`
-//! column saying so; they must be checked against the book. Rows whose recalled value disagrees
-//! with the definition by more than the tolerance are kept in the file with
-//! `status = "disagrees: definition gives …"` and are printed, not asserted (see the report in
-//! the commit history): they are either recall errors or the book's own rounding/fairing.
+//! column saying so; they must be checked against the book. The NACA 0012 thickness row at
+//! x = 20 % is printed 5.737 while the definition gives 5.73754 (0.00054 % c, just over half a
+//! unit of the last digit): it is kept in the file marked as a disagreement and printed, not
+//! asserted. Recalled cambered-section ordinates (2412, 4412, 23012) disagreed with the
+//! definition at 45 of 102 rows, so they are not used as a check until verified against the book.
 //!
 //! Tolerance: half a unit of the last printed digit (0.0005 % c for the 3-decimal thickness
 //! table, 0.005 % c for the 2-decimal section ordinates) — the most a correctly rounded printed
@@ -23,15 +24,6 @@ struct ThicknessRow {
 }
 
 #[derive(Debug, Deserialize)]
-struct OrdinateRow {
-    section: String,
-    surface: String,
-    x_percent: f64,
-    y_percent: f64,
-    status: String,
-}
-
-#[derive(Debug, Deserialize)]
 struct SlopeRow {
     section: String,
     le_radius_centre_slope: f64,
@@ -43,30 +35,6 @@ fn read_rows<T: for<'de> Deserialize<'de>>(file: &str) -> Vec<T> {
         .deserialize()
         .collect::<Result<Vec<T>, _>>()
         .expect("well-formed reference data")
-}
-
-/// Surface ordinate at chord station x (not at mean-line station x): the tables give both
-/// surfaces at the same round stations, so find the mean-line station whose surface point lies
-/// at x (bisection; x_u and x_l increase monotonically along each surface away from the nose).
-fn surface_y_at(definition: &NacaDefinition, x: f64, upper: bool) -> f64 {
-    let point = |xc: f64| {
-        let (u, l) = definition.surface_points(xc, TrailingEdge::Open);
-        if upper {
-            u
-        } else {
-            l
-        }
-    };
-    let (mut lo, mut hi) = (0.0, 1.0);
-    for _ in 0..100 {
-        let mid = 0.5 * (lo + hi);
-        if point(mid).x < x {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    point(0.5 * (lo + hi)).y
 }
 
 #[test]
@@ -115,51 +83,6 @@ fn generated_sections_lie_on_the_definition() {
             assert!((p - expected).norm() < 1e-15, "{code} point {i}");
         }
     }
-}
-
-#[test]
-fn cambered_ordinates_match_abbott_appendix_iii() {
-    // Abbott & von Doenhoff (1959) Appendix III, NACA 2412, 4412 and 23012 ordinates in % c at
-    // round chord stations. Tolerance 0.005 % c: half the last printed digit. The x = 100 row
-    // holds the trailing-edge value printed in parentheses, ±y_t(1).
-    let rows: Vec<OrdinateRow> = read_rows("abbott_cambered_ordinates.csv");
-    assert_eq!(rows.len(), 3 * 2 * 17);
-    let (mut checked, mut worst_known) = (0, 0.0_f64);
-    for row in &rows {
-        let definition = NacaDefinition::parse(&row.section).unwrap();
-        let upper = row.surface == "upper";
-        let x = row.x_percent / 100.0;
-        let computed = if x < 1.0 {
-            100.0 * surface_y_at(&definition, x, upper)
-        } else {
-            let yt = 100.0 * definition.half_thickness(1.0, TrailingEdge::Open);
-            if upper {
-                yt
-            } else {
-                -yt
-            }
-        };
-        let error = computed - row.y_percent;
-        if row.status == "ok" {
-            assert!(
-                error.abs() <= 0.005 + 1e-12,
-                "{} {} x = {}: {computed:.4} vs {}",
-                row.section,
-                row.surface,
-                row.x_percent,
-                row.y_percent
-            );
-            checked += 1;
-        } else {
-            worst_known = worst_known.max(error.abs());
-            println!(
-                "known disagreement {} {} x = {}: table {} computed {computed:.4} ({error:+.4} % c)",
-                row.section, row.surface, row.x_percent, row.y_percent
-            );
-        }
-    }
-    println!("{checked} rows within tolerance, largest known disagreement {worst_known:.4} % c");
-    assert!(checked > 0);
 }
 
 #[test]
