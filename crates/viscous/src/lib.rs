@@ -138,7 +138,7 @@ impl Default for ViscousSettings {
         Self {
             wake_length: 1.0,
             wake_stations: 32,
-            max_iterations: 40,
+            max_iterations: 60,
             tolerance: 1.0e-6,
             max_relocations: 10,
             transition_entrainment_fraction: 0.5,
