@@ -415,6 +415,11 @@ impl<'a> Context<'a> {
         }
     }
 
+    /// Station `g` of `state` as a residual point, with the given third variable and edge speed.
+    fn station(&self, state: &InteractionState, g: usize, third: f64, ue: f64) -> Point {
+        self.point(g, state.theta[g], state.mass_defect[g], third, ue)
+    }
+
     /// Residual of station `g` given the values of its dependencies, in the order of
     /// [`Context::dependencies`], each as (θ, m, third, ue).
     fn residual(&self, g: usize, values: &[[f64; 4]]) -> [f64; 3] {
@@ -856,14 +861,8 @@ fn march_sweep(
                 state.third[g] = state.third[p];
                 if state.first_turbulent[k].is_none() {
                     let ctx = Context::new(layout, settings, state);
-                    let p1 = ctx.point(
-                        p,
-                        state.theta[p],
-                        state.mass_defect[p],
-                        state.third[p],
-                        ue_march[p],
-                    );
-                    let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue_march[g]);
+                    let p1 = ctx.station(state, p, state.third[p], ue_march[p]);
+                    let p2 = ctx.station(state, g, 0.0, ue_march[g]);
                     if equations::locate_transition(&p1, &p2, eq, surf.trip_arc_length).is_some() {
                         state.first_turbulent[k] = Some(i);
                         state.third[g] = equations::starting_entrainment(&p2, eq);
@@ -875,7 +874,7 @@ fn march_sweep(
             if i > 0 && state.first_turbulent[k].is_none() && state.third[g] >= eq.critical_n {
                 state.first_turbulent[k] = Some(i);
                 let ctx = Context::new(layout, settings, state);
-                let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue_march[g]);
+                let p2 = ctx.station(state, g, 0.0, ue_march[g]);
                 state.third[g] = equations::starting_entrainment(&p2, eq);
                 solve_in_place(layout, coupling, settings, state, &mut ue_march, g, kind);
             }
@@ -1043,8 +1042,9 @@ fn update_transition(
         let off = layout.offset(k);
         let n = surf.arc_length.len();
         let ctx = Context::new(layout, settings, state);
-        let pt =
-            |g: usize, third: f64| ctx.point(g, state.theta[g], state.mass_defect[g], third, ue[g]);
+        // Borrows θ and m only, so the third variables can be rewritten below.
+        let (theta, mass_defect) = (&state.theta, &state.mass_defect);
+        let pt = |g: usize, third: f64| ctx.point(g, theta[g], mass_defect[g], third, ue[g]);
         let old = state.first_turbulent[k];
         if let Some(t) = old {
             let f = equations::transition_fraction(
@@ -1330,14 +1330,8 @@ fn finish(
         let mut transition = None;
         if let Some(t) = first_turb {
             let (p, g) = (off + t - 1, off + t);
-            let p1 = ctx.point(
-                p,
-                state.theta[p],
-                state.mass_defect[p],
-                state.third[p],
-                ue[p],
-            );
-            let p2 = ctx.point(g, state.theta[g], state.mass_defect[g], 0.0, ue[g]);
+            let p1 = ctx.station(&state, p, state.third[p], ue[p]);
+            let p2 = ctx.station(&state, g, 0.0, ue[g]);
             let tp = equations::transition_fraction(&p1, &p2, eq, surf.trip_arc_length);
             let s = p1.arc_length + tp.fraction * (p2.arc_length - p1.arc_length);
             let x = surf.x_over_c[t - 1] + tp.fraction * (surf.x_over_c[t] - surf.x_over_c[t - 1]);
@@ -1349,13 +1343,7 @@ fn finish(
         }
         for i in 0..n {
             let g = off + i;
-            let p = ctx.point(
-                g,
-                state.theta[g],
-                state.mass_defect[g],
-                state.third[g],
-                ue[g],
-            );
+            let p = ctx.station(&state, g, state.third[g], ue[g]);
             let h = p.shape_factor();
             let laminar_station = first_turb.is_none_or(|t| i < t);
             let cf = if laminar_station {
@@ -1437,13 +1425,7 @@ fn finish(
         let list = (0..w.arc_length.len())
             .map(|i| {
                 let g = off + i;
-                let p = ctx.point(
-                    g,
-                    state.theta[g],
-                    state.mass_defect[g],
-                    state.third[g],
-                    ue[g],
-                );
+                let p = ctx.station(&state, g, state.third[g], ue[g]);
                 StationState {
                     arc_length: p.arc_length,
                     edge_velocity: ue[g],
