@@ -48,7 +48,10 @@ pub const BLASIUS_SHAPE_FACTOR: f64 = 2.5911;
 /// Blasius momentum-thickness constant θ·√(ue s/ν)/s (Blasius 1908).
 pub const BLASIUS_THETA: f64 = 0.6641;
 
-/// Largest shape factor at which the starting entrainment of a turbulent layer is evaluated.
+/// Largest shape factor at which the starting entrainment of a turbulent layer is evaluated
+/// (our choice, no source: the upper end of the 5–8 range at which bubble shear layers are
+/// reported to transition, METHODS digest §5.2; the lag-entrainment closure is not calibrated
+/// beyond it).
 pub const MAX_START_SHAPE_FACTOR: f64 = 6.0;
 
 /// Values at one station as seen by the residuals.
