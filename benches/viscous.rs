@@ -33,14 +33,21 @@ fn alphas() -> Vec<f64> {
     (0..41).map(|k| -4.0 + 0.5 * f64::from(k)).collect()
 }
 
-/// Prints, once, how many points of a polar converged, per Reynolds number and in total.
+/// Prints, once, how many points of a polar converged and the alphas that did not, per Reynolds
+/// number, and the total.
 fn print_convergence(label: &str, polar: &Polar) {
     for &reynolds in &polar.reynolds {
         let points: Vec<_> = polar.points_at(reynolds).collect();
-        let converged = points.iter().filter(|p| p.converged).count();
+        let failed: Vec<String> = points
+            .iter()
+            .filter(|p| !p.converged)
+            .filter_map(|p| p.alpha_deg.map(|a| format!("{a}")))
+            .collect();
         println!(
-            "{label}: Re {reynolds:.0}: {converged} of {} converged",
-            points.len()
+            "{label}: Re {reynolds:.0}: {} of {} converged; not converged at alpha [{}]",
+            points.len() - failed.len(),
+            points.len(),
+            failed.join(", ")
         );
     }
     let converged = polar.points.iter().filter(|p| p.converged).count();
