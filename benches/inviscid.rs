@@ -5,7 +5,7 @@
 use criterion::{criterion_group, criterion_main, BatchSize, Criterion};
 use foilsweep_geometry::naca::{naca_section, TrailingEdge};
 use foilsweep_panel::PanelSolver;
-use nalgebra::{DMatrix, Point2};
+use nalgebra::Point2;
 use std::hint::black_box;
 use std::time::Duration;
 
@@ -34,14 +34,7 @@ fn solver_and_sweep(c: &mut Criterion) {
 }
 
 fn dense_lu_floor(c: &mut Criterion) {
-    // Fixed-seed linear congruential generator: reproducible without an RNG dependency.
-    let mut state: u64 = 0x2545_f491_4f6c_dd1d;
-    let matrix = DMatrix::from_fn(162, 162, |_, _| {
-        state = state
-            .wrapping_mul(6_364_136_223_846_793_005)
-            .wrapping_add(1_442_695_040_888_963_407);
-        (state >> 11) as f64 / (1u64 << 53) as f64 - 0.5
-    });
+    let matrix = foilsweep_validation::seeded_matrix(162);
     c.bench_function("dense_lu_162", |b| {
         b.iter_batched(
             || matrix.clone(),

@@ -13,7 +13,6 @@ use foilsweep_geometry::{Airfoil, ParseOptions};
 use foilsweep_panel::PanelSolver;
 use foilsweep_validation::airfoil_path;
 use foilsweep_viscous::{solve_point, OperatingPoint, ViscousSettings};
-use nalgebra::DMatrix;
 use std::hint::black_box;
 use std::time::Duration;
 
@@ -124,15 +123,7 @@ fn polar_matrix(c: &mut Criterion) {
 }
 
 fn dense_lu_floor(c: &mut Criterion) {
-    // Same matrix as benches/inviscid.rs: fixed-seed linear congruential generator, reproducible
-    // without an RNG dependency.
-    let mut state: u64 = 0x2545_f491_4f6c_dd1d;
-    let matrix = DMatrix::from_fn(162, 162, |_, _| {
-        state = state
-            .wrapping_mul(6_364_136_223_846_793_005)
-            .wrapping_add(1_442_695_040_888_963_407);
-        (state >> 11) as f64 / (1u64 << 53) as f64 - 0.5
-    });
+    let matrix = foilsweep_validation::seeded_matrix(162);
     c.bench_function("dense_lu_162_viscous_floor", |b| {
         b.iter_batched(
             || matrix.clone(),

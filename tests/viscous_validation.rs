@@ -97,7 +97,7 @@ fn e387_errors(reynolds: f64) -> (Vec<(f64, f64, f64)>, usize) {
 ///   points within 10 % and every converged point within 25 %. The figures are printed and
 ///   recorded in the issue notes.
 /// - at least 90 % of the requested points converge (the robustness target of 98 % is counted
-///   over all sections in the robustness test below).
+///   over all sections in tests/viscous_robustness.rs).
 fn check_e387(reynolds: f64) {
     let (errors, requested) = e387_errors(reynolds);
     assert!(
