@@ -161,9 +161,14 @@ fn draw(polar: &Polar, kind: PlotKind, svg: &mut String) -> Result<(), String> {
     let x_range = range(all().map(|p| p.0));
     let y_range = range(all().map(|p| p.1));
     let (x_label, y_label) = kind.axis_labels();
+    // Long section titles (a file's whole title line) are shortened so the caption fits.
+    let name: String = if polar.section.name.chars().count() > 40 {
+        polar.section.name.chars().take(39).chain(['…']).collect()
+    } else {
+        polar.section.name.clone()
+    };
     let caption = format!(
-        "{}: {} at Mach {}, engineering estimate",
-        polar.section.name,
+        "{name}: {} at Mach {}, engineering estimate",
         kind.title(),
         polar.settings.mach
     );
