@@ -56,29 +56,19 @@ impl SweepProgress {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::output::SurfaceEvents;
 
     #[test]
     fn counts_finished_points() {
         let progress = SweepProgress::new(3);
-        let point = PolarPoint {
-            reynolds: 1.0e6,
-            alpha_deg: Some(0.0),
-            target_cl: None,
-            converged: false,
-            flag: Some("not attempted".to_owned()),
-            cl: None,
-            cd: None,
-            cd_friction: None,
-            cd_pressure: None,
-            cm: None,
-            cp_min: None,
-            iterations: None,
-            residual: None,
-            solves: 0,
-            upper: SurfaceEvents::default(),
-            lower: SurfaceEvents::default(),
-        };
+        let point = PolarPoint::flagged(
+            1.0e6,
+            Some(0.0),
+            None,
+            "not attempted".to_owned(),
+            None,
+            None,
+            0,
+        );
         progress.point_done(&point);
         progress.point_done(&point);
         assert_eq!(progress.done(), 2);

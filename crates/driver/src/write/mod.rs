@@ -167,24 +167,15 @@ pub(crate) mod test_support {
 
     fn point(reynolds: f64, alpha_deg: f64, converged: bool) -> PolarPoint {
         if !converged {
-            return PolarPoint {
+            return PolarPoint::flagged(
                 reynolds,
-                alpha_deg: Some(alpha_deg),
-                target_cl: None,
-                converged: false,
-                flag: Some("not converged: residual 1.3e0 after 40 iterations".to_owned()),
-                cl: None,
-                cd: None,
-                cd_friction: None,
-                cd_pressure: None,
-                cm: None,
-                cp_min: None,
-                iterations: Some(40),
-                residual: Some(1.3),
-                solves: 5,
-                upper: SurfaceEvents::default(),
-                lower: SurfaceEvents::default(),
-            };
+                Some(alpha_deg),
+                None,
+                "not converged: residual 1.3e0 after 40 iterations".to_owned(),
+                Some(40),
+                Some(1.3),
+                5,
+            );
         }
         // Invented but plausible numbers (thin-airfoil slope, parabolic drag).
         let cl = 0.11 * alpha_deg;
