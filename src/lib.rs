@@ -17,6 +17,19 @@ pub fn data_path(file_name: &str) -> PathBuf {
         .join(file_name)
 }
 
+/// CSV reader over a file in `tests/data/`, skipping the `#` comment lines that carry the
+/// provenance notes of some files.
+///
+/// # Panics
+/// If the file is missing (the data are part of the repository; a missing file is a broken
+/// checkout, not a test result).
+pub fn data_reader(file_name: &str) -> csv::Reader<std::fs::File> {
+    csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .from_path(data_path(file_name))
+        .unwrap_or_else(|e| panic!("reference data file {file_name}: {e}"))
+}
+
 /// Absolute path of a shipped section in `airfoils/`.
 pub fn airfoil_path(file_name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))

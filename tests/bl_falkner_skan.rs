@@ -121,14 +121,7 @@ fn both_branches_against_general_purpose_bvp_solver() {
     // Source: tests/data/falkner_skan_integrals.csv, SciPy solve_bvp (tol 1e-8), a
     // general-purpose collocation solver, printed to 6 (f''(0)), 4 (H) or 5 decimals.
     // Tolerance: half a unit of the printed digit plus the file's solver tolerance 1e-8.
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/falkner_skan_integrals.csv"
-    );
-    let mut reader = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .from_path(path)
-        .expect("data file");
+    let mut reader = foilsweep_validation::data_reader("falkner_skan_integrals.csv");
     let mut worst = [0.0f64; 6];
     let mut rows = 0;
     for row in reader.deserialize() {

@@ -38,14 +38,7 @@ struct Row {
 /// Reads the Falkner–Skan table. Source: tests/data/falkner_skan_integrals.csv (computed with
 /// SciPy's solve_bvp; reproduces Blasius 1908 and Hiemenz 1911 values; see its header).
 fn falkner_skan_table() -> Vec<Row> {
-    let path = concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/data/falkner_skan_integrals.csv"
-    );
-    let mut reader = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .from_path(path)
-        .expect("data file present");
+    let mut reader = foilsweep_validation::data_reader("falkner_skan_integrals.csv");
     reader
         .records()
         .map(|r| {
