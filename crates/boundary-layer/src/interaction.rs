@@ -1065,12 +1065,25 @@ fn update_transition(
             }
         }
         // March N through the laminar stations with the current states until transition.
+        // Past the current transition point the stations hold a turbulent state, whose shape
+        // factor says nothing about the laminar layer that would be there: the march carries on
+        // with the amplification rate of the last laminar station (the envelope rate is a
+        // function of the local laminar H and Re_θ; frozen over the few stations a settled
+        // interval moves, it is the natural extrapolation).
+        let last_laminar = old.map(|t| off + t - 1);
         let mut n_prev = state.third[off];
         let mut target = None;
         let mut n_values = vec![n_prev];
         for i in 1..n {
             let g = off + i;
-            let p1 = pt(g - 1, n_prev);
+            let rate_source = match last_laminar {
+                Some(l) if g - 1 > l => l,
+                _ => g - 1,
+            };
+            let p1 = Point {
+                arc_length: ctx.arc_length[g - 1],
+                ..pt(rate_source, n_prev)
+            };
             let p2 = pt(g, 0.0);
             if equations::locate_transition(&p1, &p2, eq, surf.trip_arc_length).is_some() {
                 target = Some(i);
