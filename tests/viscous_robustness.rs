@@ -144,11 +144,11 @@ fn attached_range_converges_or_is_flagged() {
         "overall: {converged} of {requested} converged ({:.1} %)",
         100.0 * fraction
     );
-    // Target 98 % (issue); measured 92.2 % (71 of 77) at the time of writing; this guards
-    // against regression, the shortfall is recorded in the issue notes.
+    // Target 98 % (issue); measured 98.7 % (76 of 77; NACA 0012 at 14° is flagged) at the
+    // time of writing.
     assert!(
-        fraction >= 0.90,
-        "converged fraction {:.1} % (target 98 %, guarded level 90 %)",
+        fraction >= 0.98,
+        "converged fraction {:.1} % (target 98 %)",
         100.0 * fraction
     );
 }

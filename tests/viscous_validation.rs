@@ -91,9 +91,10 @@ fn e387_errors(reynolds: f64) -> (Vec<(f64, f64, f64)>, usize) {
 /// - cl within 0.05 at every converged point (the issue's target; the UIUC/LTPT scatter is
 ///   about 0.01, and an integral method with e^N transition is not expected to do better than a
 ///   few hundredths where a bubble changes the pressure distribution).
-/// - cd: the target is 10 % at every point. The model reaches it at most points but not all
-///   (bubble-state changes between neighbouring angles give isolated deviations up to about
-///   20 %), so this check guards the reached level: at least three quarters of the converged
+/// - cd: the target is 10 % at every point. The model reaches it at 9 of the 10 points of each
+///   Reynolds number but not at alpha ≈ 7° (measured +11.4 %, +20.8 %, +18.7 %, +15.9 % at
+///   Re 2e5, 3e5, 3.5e5, 5e5), where it predicts natural transition near x/c 0.15–0.3, ahead of
+///   the measured bubble. This check guards the reached level: at least 80 % of the converged
 ///   points within 10 % and every converged point within 25 %. The figures are printed and
 ///   recorded in the issue notes.
 /// - at least 90 % of the requested points converge (the robustness target of 98 % is counted
@@ -113,7 +114,7 @@ fn check_e387(reynolds: f64) {
     }
     let within = errors.iter().filter(|e| e.2.abs() <= 0.10).count();
     assert!(
-        within * 4 >= errors.len() * 3,
+        within * 5 >= errors.len() * 4,
         "cd within 10 % at only {within} of {} points at Re {reynolds}",
         errors.len()
     );

@@ -51,8 +51,8 @@ pub const BLASIUS_THETA: f64 = 0.6641;
 /// Largest shape factor at which the starting entrainment of a turbulent layer is evaluated
 /// (our choice, no source: the upper end of the 5–8 range at which bubble shear layers are
 /// reported to transition, METHODS digest §5.2; the lag-entrainment closure is not calibrated
-/// beyond it).
-pub const MAX_START_SHAPE_FACTOR: f64 = 6.0;
+/// beyond it). The lag equation's equilibrium target is held at the same shape factor.
+pub const MAX_START_SHAPE_FACTOR: f64 = lag_entrainment::EQUILIBRIUM_SHAPE_FACTOR_CEILING;
 
 /// Values at one station as seen by the residuals.
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -1024,7 +1024,9 @@ const MAX_TRANSITION_STEP: usize = 1;
 /// explicit trapezoidal march of the envelope rate). Returns true if anything changed.
 ///
 /// While the iterate is far from converged (`settled` false) the interval moves by at most
-/// [`MAX_TRANSITION_STEP`] stations per iteration, since the laminar N values are still poor; once settled it jumps to
+/// [`MAX_TRANSITION_STEP`] stations per iteration, since the laminar N values are still poor,
+/// and never straight back to where it came from in the previous iteration (`moved_from`, per
+/// surface; cleared by the caller after an iteration without moves); once settled it jumps to
 /// where the N march puts it. Inside its interval the transition point moves continuously
 /// through the residual itself ([`equations::transition_fraction`]), and the hysteresis margin
 /// keeps the bookkeeping from cycling between two neighbouring intervals.
@@ -1034,6 +1036,7 @@ fn update_transition(
     settings: &InteractionSettings,
     state: &mut InteractionState,
     settled: bool,
+    moved_from: &mut [Option<Option<usize>>],
 ) -> bool {
     let ue = coupling.edge_velocity(&state.mass_defect);
     let eq = &settings.equations;
@@ -1111,7 +1114,14 @@ fn update_transition(
                 (_, t) => t,
             }
         };
-        if new_first != old {
+        // Far from convergence, a move straight back to where the previous move of a run of
+        // moves came from is a cycle between two neighbouring intervals (the transition point
+        // sits near their common station and the damped iterate overshoots either way): the
+        // interval stays, and the extended fraction carries the transition point across the
+        // station within the residual until the iterate settles.
+        let reversal = !settled && moved_from[k] == Some(new_first);
+        if new_first != old && !reversal {
+            moved_from[k] = Some(old);
             changed = true;
             let from = old.unwrap_or(n).min(new_first.unwrap_or(n));
             let to = old.unwrap_or(n).max(new_first.unwrap_or(n));
@@ -1221,6 +1231,8 @@ fn newton(
     let mut residual_history = Vec::new();
     let mut termination = Termination::MaxIterations;
     let mut iterations = 0;
+    // Per surface, where the interval was before its last move in the current run of moves.
+    let mut moved_from = vec![None; layout.surfaces.len()];
     for iteration in 0..settings.max_iterations {
         iterations = iteration + 1;
         let ctx = Context::new(layout, settings, &state);
@@ -1289,7 +1301,18 @@ fn newton(
         let rlx = step;
         update_history.push(biggest);
         let settled = rlx >= 1.0 && biggest < 0.05;
-        let moved = update_transition(layout, coupling, settings, &mut state, settled);
+        let moved = update_transition(
+            layout,
+            coupling,
+            settings,
+            &mut state,
+            settled,
+            &mut moved_from,
+        );
+        if !moved {
+            // A run of moves has ended: a later move back is not a cycle.
+            moved_from.fill(None);
+        }
         if !moved && rlx >= 1.0 && biggest < settings.tolerance {
             termination = Termination::Converged;
             break;

@@ -62,6 +62,21 @@ const CE_GUARD_WIDTH: f64 = 1e-5;
 /// Dissipation-length factor λ of the lag equation, boundary layer and wake alike (module doc).
 const DISSIPATION_LENGTH_FACTOR: f64 = 1.0;
 
+/// Largest shape factor at which the lag equation's equilibrium target (C_E,EQ and so Cτ_EQ0)
+/// is evaluated; beyond it the target stays at its value there (smooth ceiling of width
+/// [`EQUILIBRIUM_CEILING_WIDTH`]). Our choice, no source: the closure is calibrated for
+/// attached and mildly separated layers, and extrapolated past H ≈ 6 its C_E,EQ falls (0.080
+/// at H = 6, 0.037 at H = 15, Re_θ = 1000), so the more a turbulent shear layer is separated
+/// the less it would entrain and the less able it would be to reattach. Reattaching shear
+/// layers behind transition in a laminar bubble (H ≈ 5–20) entrain strongly, as a free mixing
+/// layer does. The same value bounds the starting entrainment at transition
+/// (`equations::MAX_START_SHAPE_FACTOR`). Without the ceiling the coupled E387 solutions at
+/// Re 2e5–5e5 had a second, spurious family of converged states with a turbulent separated
+/// layer (H ≈ 10–24) over a third of the chord, and warm-started points fell into it.
+pub const EQUILIBRIUM_SHAPE_FACTOR_CEILING: f64 = 6.0;
+/// Width of the smooth ceiling on the equilibrium shape factor.
+const EQUILIBRIUM_CEILING_WIDTH: f64 = 0.5;
+
 /// Green's entrainment shape factor H1 = (δ − δ*)/θ = 3.15 + 1.72/(H − 1) − 0.01(H − 1)² at shape
 /// factor `h` (GWB 1973, from memory). Strictly decreasing in H; H guarded at 1.05.
 pub fn entrainment_shape_factor(h: f64) -> f64 {
@@ -129,17 +144,28 @@ fn shear_stress_coefficient(ce: f64, cf0: f64) -> f64 {
 /// θ dC_E/ds = F [2.8/(H + H1) (√Cτ_EQ0 − λ√Cτ) + Π_EQ − Π].
 ///
 /// With `wake` = true, cf = 0 in the equilibrium relations; λ = 1 throughout (module doc on the
-/// wake value). Finite for every finite input.
+/// wake value). C_E,EQ in Cτ_EQ0 is taken at a shape factor held below
+/// [`EQUILIBRIUM_SHAPE_FACTOR_CEILING`] (our extension, see there). Finite for every finite
+/// input.
 pub fn lag_rate(h: f64, ce: f64, re_theta: f64, pressure_gradient: f64, wake: bool) -> f64 {
     let h = guarded_shape_factor(h);
     let cf0 = flat_plate_skin_friction(re_theta);
-    let cf = if wake {
-        0.0
-    } else {
-        skin_friction(h, re_theta)
+    let wall_friction = |h: f64| {
+        if wake {
+            0.0
+        } else {
+            skin_friction(h, re_theta)
+        }
     };
+    let cf = wall_friction(h);
     let h1 = entrainment_shape_factor(h);
-    let ce_eq = equilibrium_entrainment_with(h, cf);
+    // Smooth ceiling: −floor(−H) at −ceiling.
+    let h_eq = -smooth_floor(
+        -h,
+        -EQUILIBRIUM_SHAPE_FACTOR_CEILING,
+        EQUILIBRIUM_CEILING_WIDTH,
+    );
+    let ce_eq = equilibrium_entrainment_with(h_eq, wall_friction(h_eq));
     let pi_eq = equilibrium_pressure_gradient(h, cf);
     let ce_guarded = smooth_floor(ce, CE_FLOOR, CE_GUARD_WIDTH);
     let f = (0.02 * ce_guarded + ce_guarded * ce_guarded + 0.8 * cf0 / 3.0) / (0.01 + ce_guarded);
@@ -177,6 +203,23 @@ mod tests {
             let pi = equilibrium_pressure_gradient(h, cf);
             assert_relative_eq!(lag_rate(h, ce, re_theta, pi, false), 0.0, epsilon = 1e-14);
         }
+    }
+
+    #[test]
+    fn equilibrium_target_is_held_beyond_the_ceiling() {
+        // Well above the ceiling (the smooth knee is within 1e-4 of it by H = 10) the target
+        // is C_E,EQ at the ceiling: with Π = Π_EQ(H) the rate vanishes at that C_E. The
+        // tolerance 1e-6 covers the knee's residual 6e-5 in H (the rate is O(1e-2) per unit
+        // change of C_E there).
+        let re_theta = 1000.0;
+        let ce_ceiling = equilibrium_entrainment(EQUILIBRIUM_SHAPE_FACTOR_CEILING, re_theta);
+        for h in [10.0, 15.0, 19.0] {
+            let pi = equilibrium_pressure_gradient(h, skin_friction(h, re_theta));
+            let rate = lag_rate(h, ce_ceiling, re_theta, pi, false);
+            assert!(rate.abs() < 1e-6, "H {h}: rate {rate}");
+        }
+        // The closure's own equilibrium there would be far lower (the reason for the ceiling).
+        assert!(equilibrium_entrainment(15.0, re_theta) < 0.5 * ce_ceiling);
     }
 
     #[test]
