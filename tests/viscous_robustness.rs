@@ -152,3 +152,38 @@ fn attached_range_converges_or_is_flagged() {
         100.0 * fraction
     );
 }
+
+/// No converged point carries the spurious attachment-side state: on the Eppler 387 at Re 1e6
+/// and alpha 2°–6° the lower surface near the nose is the attachment side, where the flow
+/// accelerates away from the stagnation point; a laminar separation and transition within the
+/// first 5 % of the chord there is not physical (common practice, no source: the pressure side
+/// of a lifting section stays laminar well past its nose at this Reynolds number). Such states
+/// are solutions of the discrete equations; the solver must reject them (the point is then
+/// re-solved or flagged), never report them as converged.
+#[test]
+fn no_converged_point_transitions_on_the_attachment_side() {
+    let text = std::fs::read_to_string(airfoil_path("e387.dat")).expect("shipped E387");
+    let e387: Airfoil = Airfoil::parse(&text, "e387.dat", &ParseOptions::default())
+        .expect("E387 parses")
+        .0;
+    let alphas = vec![2.0, 3.0, 4.0, 5.0, 6.0];
+    let request = PolarRequest::new(&e387, 160, vec![1.0e6], Targets::AlphaDeg(alphas.clone()))
+        .expect("E387 request");
+    let polar = run_polar(&request, None).expect("sweep runs");
+    assert_eq!(polar.points.len(), alphas.len());
+    for (point, alpha) in polar.points.iter().zip(&alphas) {
+        println!(
+            "E387 Re 1e6 alpha {alpha}: converged {}, lower transition {:?}, flag {:?}",
+            point.converged, point.lower.transition_x_over_c, point.flag
+        );
+        if point.converged {
+            let lower = point.lower.transition_x_over_c.unwrap_or(1.0);
+            assert!(
+                lower > 0.05,
+                "alpha {alpha}: lower-surface transition at x/c {lower:.3} reported as converged"
+            );
+        } else {
+            assert!(point.flag.is_some(), "alpha {alpha}: failed without a flag");
+        }
+    }
+}

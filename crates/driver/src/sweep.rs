@@ -295,15 +295,22 @@ impl SolveAt for ViscousAt<'_> {
         };
         let warm = warm.map(|w| &w.warm_start);
         match solve_point(&request.solver, &point, &request.viscous, warm) {
-            Ok(result) if result.status == PointStatus::Converged => Ok(result),
-            Ok(result) => Err(Failure {
-                reason: format!(
-                    "not converged: residual {:.1e} after {} iterations",
-                    result.residual, result.iterations
-                ),
-                iterations: Some(result.iterations),
-                residual: Some(result.residual),
-            }),
+            Ok(result) => match result.status {
+                PointStatus::Converged => Ok(result),
+                PointStatus::NotConverged => Err(Failure {
+                    reason: format!(
+                        "not converged: residual {:.1e} after {} iterations",
+                        result.residual, result.iterations
+                    ),
+                    iterations: Some(result.iterations),
+                    residual: Some(result.residual),
+                }),
+                PointStatus::Implausible(why) => Err(Failure {
+                    reason: format!("converged to an implausible state: {why}"),
+                    iterations: Some(result.iterations),
+                    residual: Some(result.residual),
+                }),
+            },
             Err(error) => Err(Failure {
                 reason: error.to_string(),
                 iterations: None,

@@ -153,6 +153,36 @@ pub enum PointStatus {
     Converged,
     /// The iteration limit was reached; coefficients are from the last iterate and flagged.
     NotConverged,
+    /// Newton converged to a state that fails a physical plausibility check (see
+    /// [`Implausibility`]); the coefficients are from that state and flagged.
+    Implausible(Implausibility),
+}
+
+/// Why a converged state is not accepted.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Implausibility {
+    /// The laminar layer separates, and then transitions, where the inviscid flow is still
+    /// accelerating on both sides of the separation station. An attached laminar layer cannot
+    /// separate in a favourable pressure gradient; such states appear next to the stagnation
+    /// point on the attachment side (a separated first interval that then trips transition
+    /// there) and are a second, spurious solution of the discrete equations.
+    SeparationInFavourableGradient(Surface),
+}
+
+impl std::fmt::Display for Implausibility {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Self::SeparationInFavourableGradient(surface) => write!(
+                f,
+                "laminar separation on the {} surface where the inviscid flow accelerates \
+                 (spurious state near the stagnation point)",
+                match surface {
+                    Surface::Upper => "upper",
+                    Surface::Lower => "lower",
+                }
+            ),
+        }
+    }
 }
 
 /// Boundary-layer results of one surface.
@@ -400,7 +430,13 @@ fn attempt_alpha(
             continue;
         }
         let status = if converged && moved.is_none() {
-            PointStatus::Converged
+            let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, &wake_speed);
+            match topo.separation_in_favourable_gradient(&ue_inv, &solution.events) {
+                Some(surface) => PointStatus::Implausible(
+                    Implausibility::SeparationInFavourableGradient(surface),
+                ),
+                None => PointStatus::Converged,
+            }
         } else {
             PointStatus::NotConverged
         };

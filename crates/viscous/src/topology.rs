@@ -17,6 +17,7 @@ use foilsweep_boundary_layer::equations::{SurfaceStart, MIN_ENTRAINMENT};
 use foilsweep_boundary_layer::interaction::{
     InteractionSolution, InteractionState, Layout, SurfaceLayout, WakeLayout,
 };
+use foilsweep_boundary_layer::state::{Event, EventKind};
 use foilsweep_panel::{critical_cp, karman_tsien_cp, InviscidSolution, PanelSolver, WakeLine};
 use nalgebra::{DMatrix, Point2};
 
@@ -288,6 +289,37 @@ impl Topology {
                 }
             })
             .collect()
+    }
+
+    /// The first surface (if any) with a laminar separation that is followed by transition
+    /// (not by a laminar reattachment) and lies in an interval where the inviscid edge speed
+    /// `ue_inviscid` (per station, as from
+    /// [`inviscid_edge_velocity`](Self::inviscid_edge_velocity)) rises into, through and out
+    /// of the interval (see `Implausibility::SeparationInFavourableGradient`).
+    pub fn separation_in_favourable_gradient(
+        &self,
+        ue_inviscid: &[f64],
+        events: &[Vec<Event>],
+    ) -> Option<Surface> {
+        [Surface::Upper, Surface::Lower]
+            .into_iter()
+            .enumerate()
+            .find_map(|(k, surface)| {
+                let events = events.get(k)?;
+                let s_sep = events.windows(2).find(|w| {
+                    w[0].kind == EventKind::LaminarSeparation
+                        && matches!(w[1].kind, EventKind::Transition(_))
+                })?[0]
+                    .arc_length;
+                let arc = &self.layout.surfaces[k].arc_length;
+                let i = arc.partition_point(|&s| s < s_sep);
+                if i < 2 || i + 1 >= arc.len() {
+                    return None;
+                }
+                let ue = |j: usize| ue_inviscid[self.layout.offset(k) + j];
+                let accelerating = (i - 2..=i).all(|j| ue(j + 1) > ue(j));
+                accelerating.then_some(surface)
+            })
     }
 
     /// Surface speed γ at the panel nodes including the displacement effect.
