@@ -1420,9 +1420,11 @@ fn finish(
                 a.skin_friction,
                 b.skin_friction,
             );
-            let b_laminar = first_turb.is_none_or(|t| i < t);
+            // Laminar or turbulent by where the crossing lies relative to the transition point
+            // (inside the transition interval the downstream station is already turbulent).
+            let laminar_here = transition.is_none_or(|t| s < t.arc_length);
             if a.skin_friction > 0.0 && b.skin_friction <= 0.0 {
-                let kind = if b_laminar {
+                let kind = if laminar_here {
                     EventKind::LaminarSeparation
                 } else {
                     EventKind::TurbulentSeparation
