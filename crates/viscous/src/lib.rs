@@ -18,8 +18,9 @@
 //! correction of the surface pressure (the boundary layer is incompressible); points whose
 //! minimum Cp is below the critical Cp are flagged.
 //!
-//! Invariants: every result carries a [`PointStatus`]; a point that did not converge is never
-//! reported as converged, and no coefficient is invented for a point that failed.
+//! Invariants: every result carries a [`PointStatus`]; a point that did not converge, or that
+//! converged to a state failing the plausibility check ([`Implausibility`]), is never reported
+//! as converged, and no coefficient is invented for a point that failed.
 //!
 //! ```no_run
 //! # fn main() -> Result<(), Box<dyn std::error::Error>> {
