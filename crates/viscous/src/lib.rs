@@ -431,7 +431,7 @@ fn attempt_alpha(
             continue;
         }
         let status = if converged && moved.is_none() {
-            let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, &wake_speed);
+            // `ue_inv` is still this layout's: the layout only changes on a relocation above.
             match topo.separation_in_favourable_gradient(&ue_inv, &solution.events) {
                 Some(surface) => PointStatus::Implausible(
                     Implausibility::SeparationInFavourableGradient(surface),
