@@ -13,8 +13,10 @@
 //!    values only warm up the solver and are not reported.
 //!
 //! If it still fails it is kept, flagged with the reason of its first failure. A start point
-//! that fails (it has no neighbour) is approached again from the first converged point above it
-//! before the downward march starts from it.
+//! that fails cold (it has no neighbour) is approached from a lead-in solution at alpha 0°
+//! ([`SolveAt::lead_in`], not reported), where a cold start is most likely to succeed, so a
+//! list such as 5°…7° does not depend on a cold start at 5°. If that fails too, it is approached
+//! again from the first converged point above it before the downward march starts from it.
 //!
 //! Giving up: after [`SweepSettings::give_up_after_failures`] consecutive failures in one
 //! direction *past stall* the rest of that direction is listed as not attempted. Past stall
@@ -54,6 +56,10 @@ pub(crate) trait SolveAt {
     /// True when two neighbouring converged points of a march show the section past (or at)
     /// stall, so that further failures in that direction are expected.
     fn beyond_stall(&self, previous: &(f64, Self::Solved), last: &(f64, Self::Solved)) -> bool;
+    /// A cold solve at the operating point where cold starts are most reliable (alpha 0°), with
+    /// its value in the swept quantity, to approach a start at `start` that failed cold; `None`
+    /// when that would repeat the failed solve.
+    fn lead_in(&self, start: f64) -> Option<Result<(f64, Self::Solved), Failure>>;
 }
 
 /// What became of one requested value.
@@ -235,6 +241,19 @@ pub(crate) fn continue_over<P: SolveAt>(
     let start_value = values[start];
     let (outcome, solves) = attempt(solver, start_value, None, settings);
     let mut start_record = Record { outcome, solves };
+    // A start that failed cold is approached from the lead-in solution.
+    if matches!(start_record.outcome, Outcome::Failed(_)) {
+        if let Some(lead) = solver.lead_in(start_value) {
+            start_record.solves += 1;
+            if let Ok(lead) = lead {
+                let (outcome, solves) = attempt(solver, start_value, Some(&lead), settings);
+                if matches!(outcome, Outcome::Converged(_)) {
+                    start_record.outcome = outcome;
+                }
+                start_record.solves += solves;
+            }
+        }
+    }
     let converged_start = |record: &Record<P::Solved>| match &record.outcome {
         Outcome::Converged(solved) => Some((start_value, solved.clone())),
         _ => None,
@@ -281,12 +300,42 @@ impl SolveAt for ViscousAt<'_> {
     type Solved = PointResult;
 
     fn solve_at(&self, value: f64, warm: Option<&PointResult>) -> Result<PointResult, Failure> {
+        let target = match self.request.targets {
+            Targets::AlphaDeg(_) => Target::AlphaDeg(value),
+            Targets::Cl(_) => Target::Cl(value),
+        };
+        self.solve(target, warm)
+    }
+
+    fn beyond_stall(&self, previous: &(f64, PointResult), last: &(f64, PointResult)) -> bool {
+        let (previous, last) = (&previous.1, &last.1);
+        let run_deg = last.alpha_deg - previous.alpha_deg;
+        if run_deg.abs() < 1e-9 {
+            return false;
+        }
+        let slope_per_deg = (last.cl - previous.cl) / run_deg;
+        slope_per_deg < STALL_SLOPE_FRACTION * THIN_AIRFOIL_SLOPE_PER_DEG
+    }
+
+    fn lead_in(&self, start: f64) -> Option<Result<(f64, PointResult), Failure>> {
+        let alpha_mode = matches!(self.request.targets, Targets::AlphaDeg(_));
+        if alpha_mode && start == 0.0 {
+            return None;
+        }
+        Some(self.solve(Target::AlphaDeg(0.0), None).map(|solved| {
+            let value = if alpha_mode { 0.0 } else { solved.cl };
+            (value, solved)
+        }))
+    }
+}
+
+impl ViscousAt<'_> {
+    /// One solve of `target` at this Reynolds number, a status other than converged as a
+    /// [`Failure`].
+    fn solve(&self, target: Target, warm: Option<&PointResult>) -> Result<PointResult, Failure> {
         let request = self.request;
         let point = OperatingPoint {
-            target: match request.targets {
-                Targets::AlphaDeg(_) => Target::AlphaDeg(value),
-                Targets::Cl(_) => Target::Cl(value),
-            },
+            target,
             reynolds: self.reynolds,
             mach: request.mach,
             critical_n: request.critical_n,
@@ -317,16 +366,6 @@ impl SolveAt for ViscousAt<'_> {
                 residual: None,
             }),
         }
-    }
-
-    fn beyond_stall(&self, previous: &(f64, PointResult), last: &(f64, PointResult)) -> bool {
-        let (previous, last) = (&previous.1, &last.1);
-        let run_deg = last.alpha_deg - previous.alpha_deg;
-        if run_deg.abs() < 1e-9 {
-            return false;
-        }
-        let slope_per_deg = (last.cl - previous.cl) / run_deg;
-        slope_per_deg < STALL_SLOPE_FRACTION * THIN_AIRFOIL_SLOPE_PER_DEG
     }
 }
 
@@ -485,6 +524,10 @@ mod tests {
 
         fn beyond_stall(&self, _previous: &(f64, f64), last: &(f64, f64)) -> bool {
             (self.stalled)(last.0)
+        }
+
+        fn lead_in(&self, start: f64) -> Option<Result<(f64, f64), Failure>> {
+            (start != 0.0).then(|| self.solve_at(0.0, None).map(|solved| (0.0, solved)))
         }
     }
 
@@ -705,6 +748,22 @@ mod tests {
         );
         // Reported once each, the start after the upward march.
         assert_eq!(finished, [2, 1, 0]);
+    }
+
+    #[test]
+    fn a_start_away_from_zero_that_fails_cold_is_approached_from_the_lead_in() {
+        // Every value fails cold except 0, so only the lead-in can start the march.
+        let solver = scripted(|v, warm| v != 0.0 && warm.is_none());
+        let (records, finished) = run(&solver, &[5.0, 6.0], &SweepSettings::default());
+        assert_eq!(records[0].outcome, Outcome::Converged(5.0));
+        assert_eq!(records[1].outcome, Outcome::Converged(6.0));
+        // Cold at 5 fails, the lead-in at 0, then 5 warm from it; 6 warm from 5.
+        assert_eq!(records[0].solves, 3);
+        assert_eq!(
+            *solver.calls.borrow(),
+            [(5.0, None), (0.0, None), (5.0, Some(0.0)), (6.0, Some(5.0))]
+        );
+        assert_eq!(finished, [0, 1]);
     }
 
     #[test]
