@@ -168,6 +168,14 @@ pub enum Implausibility {
     /// point on the attachment side (a separated first interval that then trips transition
     /// there) and are a second, spurious solution of the discrete equations.
     SeparationInFavourableGradient(Surface),
+    /// The momentum thickness falls to less than half its laminar value across the transition
+    /// interval. θ carries the momentum deficit, which only a strong acceleration can shrink
+    /// (by the momentum integral, halving θ over one interval takes an edge-speed rise of
+    /// about 2^(1/(H+2)) − 1, over 15 % for an attached layer); such states pair the fall with a
+    /// jump of H to tens and a long turbulent separated region behind it, a spurious solution
+    /// of the discrete equations (found on the E387 at Re 2e5 near 4°, next to the physical
+    /// short bubble).
+    MomentumCollapseAtTransition(Surface),
 }
 
 impl std::fmt::Display for Implausibility {
@@ -177,10 +185,13 @@ impl std::fmt::Display for Implausibility {
                 f,
                 "laminar separation on the {} surface where the inviscid flow accelerates \
                  (spurious state near the stagnation point)",
-                match surface {
-                    Surface::Upper => "upper",
-                    Surface::Lower => "lower",
-                }
+                surface.name()
+            ),
+            Self::MomentumCollapseAtTransition(surface) => write!(
+                f,
+                "momentum thickness collapses at transition on the {} surface (spurious \
+                 separated state)",
+                surface.name()
             ),
         }
     }
@@ -432,12 +443,14 @@ fn attempt_alpha(
         }
         let status = if converged && moved.is_none() {
             // `ue_inv` is still this layout's: the layout only changes on a relocation above.
-            match topo.separation_in_favourable_gradient(&ue_inv, &solution.events) {
-                Some(surface) => PointStatus::Implausible(
-                    Implausibility::SeparationInFavourableGradient(surface),
-                ),
-                None => PointStatus::Converged,
-            }
+            let implausible = topo
+                .separation_in_favourable_gradient(&ue_inv, &solution.events)
+                .map(Implausibility::SeparationInFavourableGradient)
+                .or_else(|| {
+                    topology::momentum_collapse_at_transition(&solution.stations)
+                        .map(Implausibility::MomentumCollapseAtTransition)
+                });
+            implausible.map_or(PointStatus::Converged, PointStatus::Implausible)
         } else {
             PointStatus::NotConverged
         };

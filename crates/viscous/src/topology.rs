@@ -17,7 +17,7 @@ use foilsweep_boundary_layer::equations::{SurfaceStart, MIN_ENTRAINMENT};
 use foilsweep_boundary_layer::interaction::{
     InteractionSolution, InteractionState, Layout, SurfaceLayout, WakeLayout,
 };
-use foilsweep_boundary_layer::state::{Event, EventKind};
+use foilsweep_boundary_layer::state::{Event, EventKind, Regime, StationState};
 use foilsweep_panel::{critical_cp, karman_tsien_cp, InviscidSolution, PanelSolver, WakeLine};
 use nalgebra::{DMatrix, Point2};
 
@@ -30,6 +30,16 @@ pub enum Surface {
     Upper,
     /// Pressure side (stagnation point to node N).
     Lower,
+}
+
+impl Surface {
+    /// "upper" or "lower".
+    pub fn name(self) -> &'static str {
+        match self {
+            Self::Upper => "upper",
+            Self::Lower => "lower",
+        }
+    }
 }
 
 /// Station layout of one stagnation-point position.
@@ -472,6 +482,28 @@ fn integrate_pressure(nodes: &[Point2<f64>], cp: &[f64], alpha: f64) -> (f64, f6
     (fy * alpha.cos() - fx * alpha.sin(), m)
 }
 
+/// Ratio below which the momentum thickness may not fall from the last laminar station to the
+/// first turbulent one (see `Implausibility::MomentumCollapseAtTransition`).
+const MOMENTUM_COLLAPSE_RATIO: f64 = 0.5;
+
+/// The first surface whose first turbulent station has less than half the momentum thickness of
+/// the station before it; `stations` per surface (then the wake), as the interaction returns
+/// them.
+pub(crate) fn momentum_collapse_at_transition(stations: &[Vec<StationState>]) -> Option<Surface> {
+    [Surface::Upper, Surface::Lower]
+        .into_iter()
+        .zip(stations)
+        .find_map(|(surface, stations)| {
+            let collapsed = stations.windows(2).any(|w| {
+                let laminar = |r: Regime| matches!(r, Regime::Laminar | Regime::LaminarSeparated);
+                laminar(w[0].regime)
+                    && !laminar(w[1].regime)
+                    && w[1].momentum_thickness < MOMENTUM_COLLAPSE_RATIO * w[0].momentum_thickness
+            });
+            collapsed.then_some(surface)
+        })
+}
+
 #[allow(clippy::too_many_arguments)]
 pub(crate) fn post_process(
     topo: &Topology,
@@ -575,5 +607,51 @@ mod tests {
         let t = trip_arc_length(&s, &x, Some(0.3)).expect("trip found");
         assert!((t - 0.32).abs() < 1e-12);
         assert_eq!(trip_arc_length(&s, &x, None), None);
+    }
+
+    #[test]
+    fn momentum_collapse_is_found_only_across_transition() {
+        let station = |theta: f64, regime: Regime| StationState {
+            arc_length: 0.0,
+            edge_velocity: 1.0,
+            momentum_thickness: theta,
+            displacement_thickness: 2.5 * theta,
+            shape_factor: 2.5,
+            skin_friction: 0.0,
+            amplification: 0.0,
+            regime,
+        };
+        use Regime::{Laminar, LaminarSeparated, Turbulent, TurbulentSeparated};
+        // A physical transition: θ grows across it.
+        let smooth = vec![
+            station(1.0e-4, Laminar),
+            station(1.1e-4, LaminarSeparated),
+            station(1.2e-4, Turbulent),
+        ];
+        // The spurious root: θ drops to a sixth at the first turbulent station.
+        let collapsed = vec![
+            station(9.0e-4, LaminarSeparated),
+            station(1.5e-4, TurbulentSeparated),
+            station(1.9e-4, TurbulentSeparated),
+        ];
+        // A strong fall between two turbulent stations is not the transition root.
+        let turbulent = vec![station(4.0e-4, Turbulent), station(1.0e-4, Turbulent)];
+        let wake: Vec<StationState> = Vec::new();
+        assert_eq!(
+            momentum_collapse_at_transition(&[smooth.clone(), smooth.clone(), wake.clone()]),
+            None
+        );
+        assert_eq!(
+            momentum_collapse_at_transition(&[smooth.clone(), collapsed.clone(), wake.clone()]),
+            Some(Surface::Lower)
+        );
+        assert_eq!(
+            momentum_collapse_at_transition(&[collapsed, smooth, wake.clone()]),
+            Some(Surface::Upper)
+        );
+        assert_eq!(
+            momentum_collapse_at_transition(&[turbulent.clone(), turbulent, wake]),
+            None
+        );
     }
 }
