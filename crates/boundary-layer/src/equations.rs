@@ -41,6 +41,8 @@ pub const MIN_EDGE_VELOCITY: f64 = 1.0e-6;
 /// Shape factor of the Hiemenz stagnation-point similarity solution (Hiemenz 1911; exact
 /// value 2.2162, see `tests/data/falkner_skan_integrals.csv`).
 pub const STAGNATION_SHAPE_FACTOR: f64 = 2.2162;
+/// Thwaites's integral coefficient: θ² ue⁶ = 0.45 ν ∫ ue⁵ ds (Thwaites 1949).
+pub const THWAITES_COEFFICIENT: f64 = 0.45;
 /// Thwaites's stagnation-point value of λ = (θ²/ν) due/ds (Thwaites 1949): θ² = 0.075 ν s/ue.
 pub const STAGNATION_LAMBDA: f64 = 0.075;
 /// Shape factor of the Blasius flat-plate solution (Blasius 1908).
@@ -399,6 +401,38 @@ pub fn surface_start(p: &Point, start: SurfaceStart, settings: &EquationSettings
     ]
 }
 
+/// Residuals of a station in the stagnation region behind the first one (its predecessor lies
+/// closer to the stagnation point than the surface's `similarity_end`): θ from Thwaites's
+/// integral from the stagnation point, θ² ue⁶ = 0.45 ν ∫₀ˢ ue⁵ ds (Thwaites 1949), with
+/// ue = K s up to the previous station (its similarity speed) and linear from there to this
+/// station's own edge speed; the Hiemenz shape factor; N = 0. For ue = K s throughout this is
+/// the stagnation value θ² = 0.075 ν/K of [`surface_start`]; where the speed rises faster or
+/// slower than linearly (a small leading-edge radius, or a stagnation point between nodes) it
+/// follows the actual speed instead of assuming the linear law a whole panel away from the
+/// stagnation point.
+pub fn stagnation_region_start(
+    previous_arc_length: f64,
+    p: &Point,
+    slope: f64,
+    settings: &EquationSettings,
+) -> [f64; 3] {
+    let nu = 1.0 / settings.reynolds;
+    let k = slope.max(1e-6);
+    let s0 = previous_arc_length;
+    let u0 = k * s0;
+    // A speed below half the similarity speed of the previous station only occurs while the
+    // stagnation point is still being located; it is held there so that θ stays finite.
+    let u1 = p.edge_velocity.max(0.5 * u0).max(MIN_EDGE_VELOCITY);
+    let linear_piece = crate::thwaites::integral_ue5(u0, u1, (p.arc_length - s0).max(0.0));
+    let integral = k.powi(5) * s0.powi(6) / 6.0 + linear_piece;
+    let theta_target = (THWAITES_COEFFICIENT * nu * integral / u1.powi(6)).sqrt();
+    [
+        (p.theta / theta_target).ln(),
+        p.mass_defect / p.theta - p.edge_velocity * STAGNATION_SHAPE_FACTOR,
+        p.third,
+    ]
+}
+
 /// State that a surface's trailing-edge station hands to the wake: C_E of a turbulent station
 /// as it is, of a laminar one (transition forced at the trailing edge) from its equilibrium.
 pub fn trailing_edge_entrainment(p: &Point, laminar: bool, settings: &EquationSettings) -> f64 {
@@ -430,4 +464,61 @@ pub fn wake_start(
         wake.displacement_thickness() / dstar - 1.0,
         wake.third / ce - 1.0,
     ]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    fn point(arc_length: f64, theta: f64, edge_velocity: f64) -> Point {
+        Point {
+            arc_length,
+            theta,
+            mass_defect: STAGNATION_SHAPE_FACTOR * theta * edge_velocity,
+            third: 0.0,
+            edge_velocity,
+        }
+    }
+
+    #[test]
+    fn stagnation_region_start_is_hiemenz_for_linear_speed() {
+        // ue = K s throughout: Thwaites's integral gives θ² = 0.075 ν/K at every s (Thwaites
+        // 1949), the value of the first station's start; residuals vanish to rounding.
+        let settings = EquationSettings {
+            reynolds: 5.0e5,
+            critical_n: 9.0,
+            transition_entrainment_fraction: 0.5,
+        };
+        let (k, s0, s1) = (90.0, 0.0012, 0.0045);
+        let theta = (STAGNATION_LAMBDA / (settings.reynolds * k)).sqrt();
+        let r = stagnation_region_start(s0, &point(s1, theta, k * s1), k, &settings);
+        assert!(r.iter().all(|v| v.abs() < 1e-12), "{r:?}");
+    }
+
+    #[test]
+    fn stagnation_region_start_follows_thwaites_march_for_faster_rise() {
+        // Speed rising faster than linear after the previous station (a small leading-edge
+        // radius): the target θ equals the one of Thwaites's integral marched by the
+        // `thwaites` module over the same piecewise-linear speed (0, K s0, u1), whose
+        // stagnation start is checked against the exact value there. Same formula, independent
+        // code: agreement to rounding.
+        let settings = EquationSettings {
+            reynolds: 5.0e5,
+            critical_n: 9.0,
+            transition_entrainment_fraction: 0.5,
+        };
+        let (k, s0, s1, u1) = (90.0, 0.0006, 0.0038, 0.76);
+        let marched = crate::thwaites::momentum_thickness(
+            &[0.0, s0, s1],
+            &[0.0, k * s0, u1],
+            1.0 / settings.reynolds,
+        );
+        let r = stagnation_region_start(s0, &point(s1, marched[2], u1), k, &settings);
+        assert_relative_eq!(r[0], 0.0, epsilon = 1e-12);
+        // The linear law a whole panel away would have given θ² = 0.075 ν/K, about 1.6 times the
+        // integral's θ here: the case the start exists for.
+        let linear = (STAGNATION_LAMBDA / (settings.reynolds * k)).sqrt();
+        assert!(linear / marched[2] > 1.5, "{linear} vs {}", marched[2]);
+    }
 }

@@ -383,6 +383,13 @@ impl<'a> Context<'a> {
         )
     }
 
+    /// True for the first station of a surface.
+    fn is_surface_start(&self, g: usize) -> bool {
+        self.roles[g]
+            .surface
+            .is_some_and(|k| g == self.layout.offset(k))
+    }
+
     fn trip(&self, g: usize) -> Option<f64> {
         self.roles[g]
             .surface
@@ -434,7 +441,9 @@ impl<'a> Context<'a> {
         // edge speed ue = K s (the state the start residual imposes), so the first interval
         // stays well defined while the stagnation point is still being located (the actual ue
         // there can be ≈ 0 or negative until the layout is relocated).
-        if let Some(p) = self.roles[g].previous {
+        // (Only the surface's first station: a later station of the stagnation region is
+        // seen at its own edge speed, which its Thwaites-integral start uses.)
+        if let Some(p) = self.roles[g].previous.filter(|&p| self.is_surface_start(p)) {
             if let StationEquation::Start(SurfaceStart::Stagnation { slope }) =
                 self.roles[p].equation
             {
@@ -444,6 +453,11 @@ impl<'a> Context<'a> {
             }
         }
         match self.roles[g].equation {
+            StationEquation::Start(SurfaceStart::Stagnation { slope })
+                if !self.is_surface_start(g) =>
+            {
+                equations::stagnation_region_start(self.arc_length[g - 1], &pts[0], slope, eq)
+            }
             StationEquation::Start(start) => equations::surface_start(&pts[0], start, eq),
             StationEquation::Laminar => equations::laminar_interval(&pts[0], &pts[1], eq),
             StationEquation::Turbulent => {
@@ -1300,7 +1314,15 @@ fn newton(
         state = trial;
         let rlx = step;
         update_history.push(biggest);
-        let settled = rlx >= 1.0 && biggest < 0.05;
+        // A stalled iteration (the residual constant to 1 % over three iterations) also
+        // re-decides transition with the tight margin: an interval whose transition point has
+        // left it by a little can hold the iterate at a state that is no root (seen on the
+        // NACA 2412 at Re 6e6, 2°, lower surface: fraction 1.03, residual fixed at 0.79).
+        let stalled = residual_history.len() >= 3
+            && residual_history[residual_history.len() - 3..]
+                .iter()
+                .all(|r| (r / old_norm - 1.0).abs() < 0.01);
+        let settled = (rlx >= 1.0 && biggest < 0.05) || stalled;
         let moved = update_transition(
             layout,
             coupling,

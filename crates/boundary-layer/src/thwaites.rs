@@ -51,7 +51,7 @@ pub fn edge_velocity_gradient(arc_length: &[f64], edge_velocity: &[f64]) -> Vec<
 }
 
 /// ∫ ue⁵ ds over one interval with ue linear from `ua` to `ub` over `ds` (exact).
-fn integral_ue5(ua: f64, ub: f64, ds: f64) -> f64 {
+pub(crate) fn integral_ue5(ua: f64, ub: f64, ds: f64) -> f64 {
     let (a2, b2) = (ua * ua, ub * ub);
     ds * (a2 * a2 * ua + a2 * a2 * ub + a2 * ua * b2 + a2 * b2 * ub + ua * b2 * b2 + b2 * b2 * ub)
         / 6.0
@@ -87,7 +87,8 @@ pub fn momentum_thickness(
     });
     for i in 1..n {
         assert!(u[i] > 0.0, "edge velocity must be positive after the start");
-        integral += 0.45 * integral_ue5(u[i - 1], u[i], arc_length[i] - arc_length[i - 1]);
+        integral += crate::equations::THWAITES_COEFFICIENT
+            * integral_ue5(u[i - 1], u[i], arc_length[i] - arc_length[i - 1]);
         let u3 = u[i] * u[i] * u[i];
         theta.push((kinematic_viscosity * integral).sqrt() / u3);
     }
