@@ -483,11 +483,12 @@ fn integrate_pressure(nodes: &[Point2<f64>], cp: &[f64], alpha: f64) -> (f64, f6
 }
 
 /// Ratio below which the momentum thickness may not fall from the last laminar station to the
-/// first turbulent one (see `Implausibility::MomentumCollapseAtTransition`).
-const MOMENTUM_COLLAPSE_RATIO: f64 = 0.5;
+/// first turbulent one (see `Implausibility::MomentumCollapseAtTransition` for the observed
+/// values on either side).
+const MOMENTUM_COLLAPSE_RATIO: f64 = 0.25;
 
-/// The first surface whose first turbulent station has less than half the momentum thickness of
-/// the station before it; `stations` per surface (then the wake), as the interaction returns
+/// The first surface whose first turbulent station has less than a quarter of the momentum
+/// thickness of the station before it; `stations` per surface (then the wake), as the interaction returns
 /// them.
 pub(crate) fn momentum_collapse_at_transition(stations: &[Vec<StationState>]) -> Option<Surface> {
     [Surface::Upper, Surface::Lower]
