@@ -168,17 +168,19 @@ pub enum Implausibility {
     /// point on the attachment side (a separated first interval that then trips transition
     /// there) and are a second, spurious solution of the discrete equations.
     SeparationInFavourableGradient(Surface),
-    /// The momentum thickness falls to less than a quarter of its laminar value across the
-    /// transition interval. θ carries the momentum deficit, which only a strong acceleration can
-    /// shrink (by the momentum integral, halving θ over one interval takes an edge-speed rise of
-    /// about 2^(1/(H+2)) − 1, over 15 % for an attached layer). Such states pair the fall with
-    /// H of 70–80 at the transition station and a long turbulent separated region behind it, a
-    /// spurious solution of the discrete equations next to the physical short bubble (E387,
-    /// Re 2e5, 2.25° and 4.09° reached in small steps: θ ratio 0.16–0.17, cd 0.0144–0.0164
-    /// against 0.0111–0.0123). A milder one-station dip at transition (ratio 0.35–0.45, H ≈ 16,
-    /// seen in short bubbles at Re ≥ 1e6) is a local artefact of the transition interval that
-    /// leaves the coefficients within 1 % of a neighbouring state without it (E387 Re 1e6, 2°:
-    /// cd 0.00546 against 0.00549) and is accepted.
+    /// The momentum thickness falls to less than half its laminar value across the transition
+    /// interval and the turbulent layer behind stays separated for more than a tenth of the
+    /// chord. θ carries the momentum deficit, which only a strong acceleration can shrink (by
+    /// the momentum integral, halving θ over one interval takes an edge-speed rise of about
+    /// 2^(1/(H+2)) − 1, over 15 % for an attached layer). Such states pair the fall with H of
+    /// 70–80 at the transition station and a long turbulent separated region, a spurious
+    /// solution of the discrete equations next to the physical short bubble (E387, Re 2e5,
+    /// 2.25° and 4.09° reached in small steps: θ ratio 0.16–0.17, separated over 0.3 c, cd
+    /// 0.0144–0.0164 against 0.0111–0.0123). A one-station dip in a short bubble (θ ratio
+    /// 0.2–0.45, H 16–42, separated over 0.04–0.06 c; E387 at Re 1e6 near 0°–2°, NACA 2412 at
+    /// Re 6e6) is a local artefact of the transition interval that leaves the coefficients
+    /// within 1 % of a neighbouring state without it (E387 Re 1e6, 2°: cd 0.00546 against
+    /// 0.00549) and is accepted.
     MomentumCollapseAtTransition(Surface),
 }
 

@@ -483,25 +483,35 @@ fn integrate_pressure(nodes: &[Point2<f64>], cp: &[f64], alpha: f64) -> (f64, f6
 }
 
 /// Ratio below which the momentum thickness may not fall from the last laminar station to the
-/// first turbulent one (see `Implausibility::MomentumCollapseAtTransition` for the observed
-/// values on either side).
-const MOMENTUM_COLLAPSE_RATIO: f64 = 0.25;
+/// first turbulent one (see `Implausibility::MomentumCollapseAtTransition`).
+const MOMENTUM_COLLAPSE_RATIO: f64 = 0.5;
 
-/// The first surface whose first turbulent station has less than a quarter of the momentum
-/// thickness of the station before it; `stations` per surface (then the wake), as the interaction returns
-/// them.
+/// Arc length (chords) of turbulent separated flow behind a collapsed transition station that
+/// marks the spurious long-separation root (see `Implausibility::MomentumCollapseAtTransition`).
+const COLLAPSE_SEPARATED_RUN: f64 = 0.1;
+
+/// The first surface whose first turbulent station has less than half the momentum thickness of
+/// the station before it and is followed by turbulent separated flow over more than
+/// [`COLLAPSE_SEPARATED_RUN`]; `stations` per surface (then the wake), as the interaction
+/// returns them.
 pub(crate) fn momentum_collapse_at_transition(stations: &[Vec<StationState>]) -> Option<Surface> {
+    let laminar = |r: Regime| matches!(r, Regime::Laminar | Regime::LaminarSeparated);
     [Surface::Upper, Surface::Lower]
         .into_iter()
         .zip(stations)
         .find_map(|(surface, stations)| {
-            let collapsed = stations.windows(2).any(|w| {
-                let laminar = |r: Regime| matches!(r, Regime::Laminar | Regime::LaminarSeparated);
-                laminar(w[0].regime)
-                    && !laminar(w[1].regime)
-                    && w[1].momentum_thickness < MOMENTUM_COLLAPSE_RATIO * w[0].momentum_thickness
-            });
-            collapsed.then_some(surface)
+            let first = (1..stations.len()).find(|&i| {
+                laminar(stations[i - 1].regime)
+                    && !laminar(stations[i].regime)
+                    && stations[i].momentum_thickness
+                        < MOMENTUM_COLLAPSE_RATIO * stations[i - 1].momentum_thickness
+            })?;
+            let last_separated = stations[first..]
+                .iter()
+                .take_while(|st| st.regime == Regime::TurbulentSeparated)
+                .last()?;
+            (last_separated.arc_length - stations[first].arc_length > COLLAPSE_SEPARATED_RUN)
+                .then_some(surface)
         })
 }
 
@@ -612,8 +622,8 @@ mod tests {
 
     #[test]
     fn momentum_collapse_is_found_only_across_transition() {
-        let station = |theta: f64, regime: Regime| StationState {
-            arc_length: 0.0,
+        let station = |s: f64, theta: f64, regime: Regime| StationState {
+            arc_length: s,
             edge_velocity: 1.0,
             momentum_thickness: theta,
             displacement_thickness: 2.5 * theta,
@@ -625,34 +635,43 @@ mod tests {
         use Regime::{Laminar, LaminarSeparated, Turbulent, TurbulentSeparated};
         // A physical transition: θ grows across it.
         let smooth = vec![
-            station(1.0e-4, Laminar),
-            station(1.1e-4, LaminarSeparated),
-            station(1.2e-4, Turbulent),
+            station(0.50, 1.0e-4, Laminar),
+            station(0.52, 1.1e-4, LaminarSeparated),
+            station(0.54, 1.2e-4, Turbulent),
         ];
-        // The spurious root: θ drops to a sixth at the first turbulent station.
-        let collapsed = vec![
-            station(9.0e-4, LaminarSeparated),
-            station(1.5e-4, TurbulentSeparated),
-            station(1.9e-4, TurbulentSeparated),
+        // The spurious root: θ drops to a sixth at the first turbulent station and the layer
+        // stays separated for 0.3 chord (E387, Re 2e5, 4.09°).
+        let mut collapsed = vec![station(0.467, 9.0e-4, LaminarSeparated)];
+        collapsed.extend((0..25).map(|k| {
+            station(
+                0.479 + 0.0125 * f64::from(k),
+                1.5e-4 * (1.0 + f64::from(k)),
+                TurbulentSeparated,
+            )
+        }));
+        collapsed.push(station(0.79, 4.1e-3, Turbulent));
+        // A one-station dip in a short bubble: separated flow for 0.04 chord behind it
+        // (E387, Re 1e6, 0°), accepted.
+        let dip = vec![
+            station(0.544, 4.6e-4, LaminarSeparated),
+            station(0.557, 8.7e-5, TurbulentSeparated),
+            station(0.571, 1.4e-4, TurbulentSeparated),
+            station(0.599, 4.6e-4, TurbulentSeparated),
+            station(0.614, 6.1e-4, Turbulent),
         ];
         // A strong fall between two turbulent stations is not the transition root.
-        let turbulent = vec![station(4.0e-4, Turbulent), station(1.0e-4, Turbulent)];
+        let turbulent = vec![
+            station(0.6, 4.0e-4, Turbulent),
+            station(0.62, 1.0e-4, Turbulent),
+        ];
         let wake: Vec<StationState> = Vec::new();
-        assert_eq!(
-            momentum_collapse_at_transition(&[smooth.clone(), smooth.clone(), wake.clone()]),
-            None
-        );
-        assert_eq!(
-            momentum_collapse_at_transition(&[smooth.clone(), collapsed.clone(), wake.clone()]),
-            Some(Surface::Lower)
-        );
-        assert_eq!(
-            momentum_collapse_at_transition(&[collapsed, smooth, wake.clone()]),
-            Some(Surface::Upper)
-        );
-        assert_eq!(
-            momentum_collapse_at_transition(&[turbulent.clone(), turbulent, wake]),
-            None
-        );
+        let check = |upper: &Vec<StationState>, lower: &Vec<StationState>| {
+            momentum_collapse_at_transition(&[upper.clone(), lower.clone(), wake.clone()])
+        };
+        assert_eq!(check(&smooth, &smooth), None);
+        assert_eq!(check(&smooth, &collapsed), Some(Surface::Lower));
+        assert_eq!(check(&collapsed, &smooth), Some(Surface::Upper));
+        assert_eq!(check(&dip, &dip), None);
+        assert_eq!(check(&turbulent, &turbulent), None);
     }
 }
