@@ -1314,7 +1314,8 @@ fn newton(
         state = trial;
         let rlx = step;
         update_history.push(biggest);
-        // A stalled iteration (the residual constant to 1 % over three iterations) also
+        // A stalled iteration (the residual constant to 1 % over three iterations; our choice,
+        // no source) also
         // re-decides transition with the tight margin: an interval whose transition point has
         // left it by a little can hold the iterate at a state that is no root (seen on the
         // NACA 2412 at Re 6e6, 2°, lower surface: fraction 1.03, residual fixed at 0.79).
