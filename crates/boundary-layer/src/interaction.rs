@@ -126,25 +126,125 @@ impl Layout {
     }
 }
 
-/// The interaction law ue = ue_inviscid + D·m over all stations.
+/// The interaction law over all stations:
+///
+/// ```text
+/// u⁰ = ue_inviscid + D·m,     ue = u⁰ + C·(m + u⁰∘θ)
+/// ```
+///
+/// `D` is the mass-defect (displacement) influence. The optional `C` is the response of the
+/// edge speed to a quantity proportional to the total defect ue·(δ* + θ) = m + ue·θ at some
+/// stations: the wake-curvature term of a curved thin wake, whose vortex sheet has strength
+/// κ·ue·(δ* + θ) (Lock & Williams 1987). `C` should have zero rows at the stations where its
+/// columns are non-zero (the sheet does not act on the wake speeds it is made of), so that u⁰
+/// there is the edge speed itself; the law and its derivatives are exact either way.
 #[derive(Debug, Clone, Copy)]
 pub struct Coupling<'a> {
     /// Edge speed without displacement effect at every station (≥ 0 downstream direction).
     pub edge_velocity_inviscid: &'a [f64],
     /// due_i/dm_j, square, in station order.
     pub influence: &'a DMatrix<f64>,
+    /// Optional ∂ue_i/∂(m_j + ue_j θ_j), square, in station order (see above).
+    pub defect_influence: Option<&'a DMatrix<f64>>,
 }
 
-impl Coupling<'_> {
-    /// Edge speed at every station for the given mass defects.
-    pub fn edge_velocity(&self, mass_defect: &[f64]) -> Vec<f64> {
-        let m = DVector::from_column_slice(mass_defect);
-        let due = self.influence * m;
+/// The interaction law linearised at one state: edge speeds and their derivatives.
+struct Linearised {
+    /// Edge speed at every station.
+    ue: Vec<f64>,
+    /// ∂ue_i/∂m_j.
+    d_mass: DMatrix<f64>,
+    /// ∂ue_i/∂θ_j for the columns `j` listed (all other columns are zero).
+    d_theta: Vec<(usize, DVector<f64>)>,
+}
+
+impl<'a> Coupling<'a> {
+    /// The law with the displacement influence only.
+    pub fn new(edge_velocity_inviscid: &'a [f64], influence: &'a DMatrix<f64>) -> Self {
+        Self {
+            edge_velocity_inviscid,
+            influence,
+            defect_influence: None,
+        }
+    }
+
+    /// u⁰ = ue_inviscid + D·m.
+    fn displacement_edge_velocity(&self, mass_defect: &[f64]) -> Vec<f64> {
+        let due = self.influence * DVector::from_column_slice(mass_defect);
         self.edge_velocity_inviscid
             .iter()
             .zip(due.iter())
             .map(|(a, b)| a + b)
             .collect()
+    }
+
+    /// Non-zero columns of `C` with their defect m + u⁰θ.
+    fn defects(
+        &self,
+        c: &DMatrix<f64>,
+        u0: &[f64],
+        mass_defect: &[f64],
+        theta: &[f64],
+    ) -> Vec<(usize, f64)> {
+        (0..c.ncols())
+            .filter(|&j| c.column(j).iter().any(|&v| v != 0.0))
+            .map(|j| (j, mass_defect[j] + u0[j] * theta[j]))
+            .collect()
+    }
+
+    /// Edge speed at every station for the given mass defects and momentum thicknesses.
+    pub fn edge_velocity(&self, mass_defect: &[f64], theta: &[f64]) -> Vec<f64> {
+        let mut ue = self.displacement_edge_velocity(mass_defect);
+        if let Some(c) = self.defect_influence {
+            let defects = self.defects(c, &ue, mass_defect, theta);
+            let extra: Vec<f64> = (0..ue.len())
+                .map(|i| defects.iter().map(|&(j, q)| c[(i, j)] * q).sum())
+                .collect();
+            for (u, e) in ue.iter_mut().zip(extra) {
+                *u += e;
+            }
+        }
+        ue
+    }
+
+    /// Edge speeds and their exact derivatives at (m, θ):
+    /// ∂ue/∂m = D + C·(I + diag(θ)·D), ∂ue/∂θ = C·diag(u⁰).
+    fn linearised(&self, mass_defect: &[f64], theta: &[f64]) -> Linearised {
+        let Some(c) = self.defect_influence else {
+            return Linearised {
+                ue: self.edge_velocity(mass_defect, theta),
+                d_mass: self.influence.clone(),
+                d_theta: Vec::new(),
+            };
+        };
+        let u0 = self.displacement_edge_velocity(mass_defect);
+        let defects = self.defects(c, &u0, mass_defect, theta);
+        let mut ue = u0.clone();
+        let mut d_mass = self.influence.clone();
+        let mut d_theta = Vec::with_capacity(defects.len());
+        for &(j, q) in &defects {
+            let column = c.column(j);
+            for (i, u) in ue.iter_mut().enumerate() {
+                *u += column[i] * q;
+            }
+            // m_j enters directly; every m_k also through u⁰_j = … + D_jk m_k.
+            let row_d = self.influence.row(j);
+            for k in 0..d_mass.ncols() {
+                let direct = if k == j { 1.0 } else { 0.0 };
+                let through = direct + theta[j] * row_d[k];
+                if through != 0.0 {
+                    for i in 0..d_mass.nrows() {
+                        d_mass[(i, k)] += column[i] * through;
+                    }
+                }
+            }
+            d_theta.push((j, column.into_owned() * u0[j]));
+        }
+        Linearised {
+            ue,
+            d_mass,
+            d_theta,
+        }
     }
 }
 
@@ -536,10 +636,20 @@ fn check_sizes(layout: &Layout, coupling: &Coupling) -> Result<(), InteractionEr
             coupling.influence.ncols()
         )));
     }
+    if let Some(c) = coupling.defect_influence {
+        if c.nrows() != n || c.ncols() != n {
+            return Err(InteractionError::Size(format!(
+                "{n} stations but a {}x{} defect-influence matrix",
+                c.nrows(),
+                c.ncols()
+            )));
+        }
+    }
     if coupling
         .edge_velocity_inviscid
         .iter()
         .chain(coupling.influence.iter())
+        .chain(coupling.defect_influence.into_iter().flat_map(|c| c.iter()))
         .any(|v| !v.is_finite())
     {
         return Err(InteractionError::Size(
@@ -859,7 +969,7 @@ fn march_sweep(
     kind: InitialMarch,
 ) {
     let eq = &settings.equations;
-    let mut ue_march = coupling.edge_velocity(&state.mass_defect);
+    let mut ue_march = coupling.edge_velocity(&state.mass_defect, &state.theta);
     for (k, surf) in layout.surfaces.iter().enumerate() {
         let off = layout.offset(k);
         state.first_turbulent[k] = None;
@@ -1017,7 +1127,7 @@ pub fn residuals(
     state: &InteractionState,
 ) -> Vec<f64> {
     let ctx = Context::new(layout, settings, state);
-    let ue = coupling.edge_velocity(&state.mass_defect);
+    let ue = coupling.edge_velocity(&state.mass_defect, &state.theta);
     let mut r = Vec::with_capacity(3 * layout.len());
     for g in 0..layout.len() {
         let deps = ctx.dependencies(g);
@@ -1052,7 +1162,7 @@ fn update_transition(
     settled: bool,
     moved_from: &mut [Option<Option<usize>>],
 ) -> bool {
-    let ue = coupling.edge_velocity(&state.mass_defect);
+    let ue = coupling.edge_velocity(&state.mass_defect, &state.theta);
     let eq = &settings.equations;
     let mut changed = false;
     for (k, surf) in layout.surfaces.iter().enumerate() {
@@ -1124,6 +1234,12 @@ fn update_transition(
                 (Some(o), Some(t)) if t > o + MAX_TRANSITION_STEP => Some(o + MAX_TRANSITION_STEP),
                 (Some(o), Some(t)) if t + MAX_TRANSITION_STEP < o => Some(o - MAX_TRANSITION_STEP),
                 (Some(o), None) => (o + MAX_TRANSITION_STEP < n).then_some(o + MAX_TRANSITION_STEP),
+                // A laminar surface whose own amplification (the Newton unknown) has passed
+                // N_crit at its last station is not a laminar state even far from
+                // convergence: transition enters from the trailing edge and moves upstream
+                // step by step (otherwise a layer separating laminar at the trailing edge
+                // can keep the iterate from ever settling).
+                (None, Some(_)) if state.third[off + n - 1] >= eq.critical_n => Some(n - 1),
                 (None, Some(_)) => old,
                 (_, t) => t,
             }
@@ -1161,7 +1277,11 @@ fn assemble(
     state: &InteractionState,
 ) -> (DMatrix<f64>, DVector<f64>, Vec<f64>) {
     let n = ctx.layout.len();
-    let ue = coupling.edge_velocity(&state.mass_defect);
+    let Linearised {
+        ue,
+        d_mass,
+        d_theta,
+    } = coupling.linearised(&state.mass_defect, &state.theta);
     let mut jac = DMatrix::<f64>::zeros(3 * n, 3 * n);
     let mut rhs = DVector::<f64>::zeros(3 * n);
     for g in 0..n {
@@ -1179,9 +1299,13 @@ fn assemble(
                 jac[(row, 3 * d + 2)] += derivative[2];
                 let due = derivative[3];
                 if due != 0.0 {
-                    // ue_d depends on every m_j through the interaction matrix.
+                    // ue_d depends on every m_j through the interaction matrix, and on the
+                    // θ_j of the defect-influence columns.
                     for j in 0..n {
-                        jac[(row, 3 * j + 1)] += due * coupling.influence[(d, j)];
+                        jac[(row, 3 * j + 1)] += due * d_mass[(d, j)];
+                    }
+                    for (j, column) in &d_theta {
+                        jac[(row, 3 * j)] += due * column[d];
                     }
                 }
             }
@@ -1374,7 +1498,7 @@ fn finish(
     state: InteractionState,
     convergence: Convergence,
 ) -> InteractionSolution {
-    let ue = coupling.edge_velocity(&state.mass_defect);
+    let ue = coupling.edge_velocity(&state.mass_defect, &state.theta);
     let ctx = Context::new(layout, settings, &state);
     let eq = &settings.equations;
     let re = eq.reynolds;
@@ -1571,6 +1695,62 @@ mod tests {
     }
 
     #[test]
+    fn defect_influence_derivatives_match_differences() {
+        // ue = u⁰ + C(m + u⁰∘θ), u⁰ = ue_inv + D m: the analytic derivatives used by Newton
+        // against central differences of the law itself (step 1e-6 on values of order 1e-3 to
+        // 1: truncation and round-off both far below the 1e-7 tolerance).
+        let n = 6;
+        let ue_inv: Vec<f64> = (0..n).map(|i| 1.0 + 0.1 * i as f64).collect();
+        let d = DMatrix::from_fn(n, n, |i, j| 0.3 / (1.0 + (i as f64 - j as f64).abs()));
+        // Rows of the last two stations zero, columns only there (the wake-curvature pattern).
+        let c = DMatrix::from_fn(n, n, |i, j| {
+            if i < 4 && j >= 4 {
+                0.2 + 0.05 * (i + j) as f64
+            } else {
+                0.0
+            }
+        });
+        let coupling = Coupling {
+            edge_velocity_inviscid: &ue_inv,
+            influence: &d,
+            defect_influence: Some(&c),
+        };
+        let m: Vec<f64> = (0..n).map(|i| 1e-3 * (1.0 + i as f64)).collect();
+        let theta: Vec<f64> = (0..n).map(|i| 5e-4 * (2.0 + i as f64)).collect();
+        let lin = coupling.linearised(&m, &theta);
+        let ue = coupling.edge_velocity(&m, &theta);
+        for (a, b) in lin.ue.iter().zip(&ue) {
+            assert!((a - b).abs() < 1e-15);
+        }
+        let h = 1e-6;
+        for j in 0..n {
+            let shifted = |v: &[f64], dv: f64| {
+                let mut w = v.to_vec();
+                w[j] += dv;
+                w
+            };
+            let dm: Vec<f64> = coupling
+                .edge_velocity(&shifted(&m, h), &theta)
+                .iter()
+                .zip(coupling.edge_velocity(&shifted(&m, -h), &theta))
+                .map(|(a, b)| (a - b) / (2.0 * h))
+                .collect();
+            let dt: Vec<f64> = coupling
+                .edge_velocity(&m, &shifted(&theta, h))
+                .iter()
+                .zip(coupling.edge_velocity(&m, &shifted(&theta, -h)))
+                .map(|(a, b)| (a - b) / (2.0 * h))
+                .collect();
+            let column_t = lin.d_theta.iter().find(|(k, _)| *k == j).map(|(_, c)| c);
+            for i in 0..n {
+                assert!((lin.d_mass[(i, j)] - dm[i]).abs() < 1e-7, "dm ({i},{j})");
+                let analytic = column_t.map_or(0.0, |c| c[i]);
+                assert!((analytic - dt[i]).abs() < 1e-7, "dθ ({i},{j})");
+            }
+        }
+    }
+
+    #[test]
     fn blasius_without_interaction() {
         // Blasius (1908): θ√Re_x/x = 0.6641, H = 2.5911. The two-equation closure reproduces
         // the Falkner–Skan values at H = 2.591 to 0.1 % (METHODS digest §5.5 table), so the
@@ -1579,10 +1759,7 @@ mod tests {
         let n = layout.len();
         let ue = vec![1.0; n];
         let d = DMatrix::zeros(n, n);
-        let coupling = Coupling {
-            edge_velocity_inviscid: &ue,
-            influence: &d,
-        };
+        let coupling = Coupling::new(&ue, &d);
         let settings = InteractionSettings::new(1.0e6);
         let sol = solve(&layout, &coupling, &settings, None).expect("solve");
         assert_eq!(sol.convergence.termination, Termination::Converged);
@@ -1613,10 +1790,7 @@ mod tests {
             .zip(shift.iter())
             .map(|(&x, b)| 1.0 - 0.05 * x - b)
             .collect();
-        let coupling = Coupling {
-            edge_velocity_inviscid: &ue,
-            influence: &d,
-        };
+        let coupling = Coupling::new(&ue, &d);
         let settings = InteractionSettings::new(re);
         let sol = solve(&layout, &coupling, &settings, None).expect("solve");
         assert_eq!(sol.convergence.termination, Termination::Converged);
@@ -1641,10 +1815,7 @@ mod tests {
         let m_ref: Vec<f64> = x.iter().map(|&x| 1.7208 * (x / re).sqrt()).collect();
         let shift = &d * DVector::from_column_slice(&m_ref);
         let ue: Vec<f64> = ue_e.iter().zip(shift.iter()).map(|(a, b)| a - b).collect();
-        let coupling = Coupling {
-            edge_velocity_inviscid: &ue,
-            influence: &d,
-        };
+        let coupling = Coupling::new(&ue, &d);
         // The transition point has to travel a long way from where the initial march puts it
         // (one station per iteration while far from convergence), hence the larger limit.
         let settings = InteractionSettings {

@@ -62,6 +62,8 @@ pub struct PolarSettings {
     pub max_relocations: usize,
     /// Entrainment coefficient at transition as a fraction of its equilibrium value.
     pub transition_entrainment_fraction: f64,
+    /// True when the wake-curvature term was part of the interaction.
+    pub wake_curvature: bool,
     /// True when a failed warm-started point was also retried cold by the sweep.
     pub retry_cold: bool,
     /// Step halvings allowed when approaching a failed point from its neighbour.

@@ -421,6 +421,7 @@ fn polar_settings(request: &PolarRequest) -> PolarSettings {
         tolerance,
         max_relocations,
         transition_entrainment_fraction,
+        wake_curvature,
     } = request.viscous;
     PolarSettings {
         target: match request.targets {
@@ -437,6 +438,7 @@ fn polar_settings(request: &PolarRequest) -> PolarSettings {
         tolerance,
         max_relocations,
         transition_entrainment_fraction,
+        wake_curvature,
         retry_cold: request.sweep.retry_cold,
         max_step_halvings: request.sweep.max_step_halvings,
         give_up_after_failures: request.sweep.give_up_after_failures,

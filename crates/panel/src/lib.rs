@@ -14,7 +14,9 @@
 //! - [`PanelSolver::wake_line`] marches a [`WakeLine`] streamline from the trailing edge;
 //!   [`PanelSolver::wake_speed`] gives the inviscid speed along it.
 //! - [`PanelSolver::source_influence`] gives the [`SourceInfluence`] matrix ∂q/∂σ of surface and
-//!   wake speeds with respect to constant-strength transpiration sources.
+//!   wake speeds with respect to constant-strength transpiration sources;
+//!   [`PanelSolver::wake_vortex_influence`] the surface speeds' response to a vortex sheet on
+//!   the wake line (wake-curvature correction).
 //! - [`karman_tsien_cp`], [`karman_tsien_speed`], [`critical_cp`]: subsonic corrections.
 //!
 //! # What it does not do
@@ -55,6 +57,7 @@ mod influence;
 mod solver;
 mod sources;
 mod wake;
+mod wake_vortex;
 
 pub use compressibility::{critical_cp, isentropic_cp, karman_tsien_cp, karman_tsien_speed};
 pub use error::PanelError;

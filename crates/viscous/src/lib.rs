@@ -132,6 +132,10 @@ pub struct ViscousSettings {
     pub max_relocations: usize,
     /// C_E at transition as a fraction of its equilibrium value.
     pub transition_entrainment_fraction: f64,
+    /// Include the wake-curvature term of the interaction (a vortex sheet κ ue (δ* + θ) on the
+    /// wake line; DEVELOPERS.md, step 2a). Off by default: it lowers the lift slope towards the
+    /// measured one but does not yet keep the robustness target.
+    pub wake_curvature: bool,
 }
 
 impl Default for ViscousSettings {
@@ -143,6 +147,7 @@ impl Default for ViscousSettings {
             tolerance: 1.0e-6,
             max_relocations: 10,
             transition_entrainment_fraction: 0.5,
+            wake_curvature: false,
         }
     }
 }
@@ -264,6 +269,8 @@ pub struct PointResult {
 pub struct WarmStart {
     pub(crate) topology: Topology,
     pub(crate) state: InteractionState,
+    /// Wake-curvature sheet strength per wake panel (empty without the correction).
+    pub(crate) wake_sheet: Vec<f64>,
 }
 
 /// Errors of one operating point.
@@ -376,6 +383,55 @@ fn solve_alpha(
     }
 }
 
+/// The wake-curvature term of the interaction (Lock & Williams 1987, Prog. Aerospace Sci. 24;
+/// derivation in DEVELOPERS.md). Across a thin wake whose line turns at curvature κ
+/// (counter-clockwise positive along the flow) the real flow's static pressure jumps by
+/// ρ ue² κ (δ* + θ) more than the equivalent inviscid flow's; the equivalent flow carries the
+/// difference as a vortex sheet of strength γ_w = κ ue (δ* + θ) on the wake line. The sheet is
+/// part of the interaction law (`Coupling::defect_influence`), so Newton sees it; it lowers
+/// lift (the wake behind a lifting section turns counter-clockwise). Not modelled: the sheet's
+/// effect on the wake's own edge speed, and the change of the wake line's shape.
+struct WakeCurvature {
+    /// ∂γ_surface/∂γ_w per wake panel.
+    influence: nalgebra::DMatrix<f64>,
+    /// Curvature of each wake panel: the tangent-angle change over the panel length.
+    curvature: Vec<f64>,
+}
+
+impl WakeCurvature {
+    fn new(solver: &PanelSolver, wake: &foilsweep_panel::WakeLine) -> Self {
+        let curvature = wake
+            .nodes
+            .windows(2)
+            .zip(wake.tangents.windows(2))
+            .map(|(p, t)| {
+                let length = (p[1] - p[0]).norm();
+                let turn = t[0].perp(&t[1]).atan2(t[0].dot(&t[1]));
+                if length > 0.0 {
+                    turn / length
+                } else {
+                    0.0
+                }
+            })
+            .collect();
+        Self {
+            influence: solver.wake_vortex_influence(wake),
+            curvature,
+        }
+    }
+
+    /// Surface speed γ plus the response to `sheet` (unchanged if the sheet does not fit).
+    fn add_sheet(&self, mut gamma: Vec<f64>, sheet: &[f64]) -> Vec<f64> {
+        if sheet.len() == self.curvature.len() {
+            let response = &self.influence * nalgebra::DVector::from_column_slice(sheet);
+            for (g, r) in gamma.iter_mut().zip(response.iter()) {
+                *g += r;
+            }
+        }
+        gamma
+    }
+}
+
 fn attempt_alpha(
     solver: &PanelSolver,
     point: &OperatingPoint,
@@ -390,12 +446,20 @@ fn attempt_alpha(
         .map_err(|e| ViscousError::Setup(e.to_string()))?;
     let wake_speed = solver.wake_speed(alpha, &wake);
     let influence = solver.source_influence(&wake);
+    let curvature = settings
+        .wake_curvature
+        .then(|| WakeCurvature::new(solver, &wake));
     // With a warm start the stagnation point is placed where the neighbour's displacement
     // effect puts it at this alpha (viscous γ estimate), so the mapped state fits the layout.
     let gamma_start = match warm {
         Some(w) => {
-            w.topology
-                .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect)
+            let gamma =
+                w.topology
+                    .viscous_gamma(&inviscid.gamma, &influence.matrix, &w.state.mass_defect);
+            match &curvature {
+                Some(c) => c.add_sheet(gamma, &w.wake_sheet),
+                None => gamma,
+            }
         }
         None => inviscid.gamma.clone(),
     };
@@ -417,9 +481,13 @@ fn attempt_alpha(
     loop {
         let d = topo.mass_defect_influence(&influence.matrix);
         let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, &wake_speed);
+        let c = curvature
+            .as_ref()
+            .map(|c| topo.defect_influence(&c.influence, &c.curvature));
         let coupling = Coupling {
             edge_velocity_inviscid: &ue_inv,
             influence: &d,
+            defect_influence: c.as_ref(),
         };
         let solution = interaction::solve(&topo.layout, &coupling, &ib_settings, state.take())
             .map_err(|source| ViscousError::Solve { alpha_deg, source })?;
@@ -431,6 +499,14 @@ fn attempt_alpha(
             &influence.matrix,
             &solution.state.mass_defect,
         );
+        let sheet = curvature.as_ref().map_or_else(Vec::new, |c| {
+            let wake = solution.stations.get(2).map_or(&[][..], Vec::as_slice);
+            topo.wake_sheet(&c.curvature, wake)
+        });
+        let gamma = match &curvature {
+            Some(c) => c.add_sheet(gamma, &sheet),
+            None => gamma,
+        };
         let converged = solution.convergence.termination == Termination::Converged;
         let moved = if converged {
             topo.relocated(&gamma, &wake, point)
@@ -460,8 +536,10 @@ fn attempt_alpha(
         } else {
             PointStatus::NotConverged
         };
-        return Ok(topology::post_process(
+        let mut result = topology::post_process(
             &topo, &inviscid, alpha_deg, point, &gamma, solution, status, iterations,
-        ));
+        );
+        result.warm_start.wake_sheet = sheet;
+        return Ok(result);
     }
 }

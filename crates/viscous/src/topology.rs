@@ -287,6 +287,50 @@ impl Topology {
         d
     }
 
+    /// (∂γ_w,k/∂q_j) for every wake panel k: the vortex-sheet strength κ_k·½(q_a + q_b) of the
+    /// wake-curvature correction from the total defects q = ue·(δ* + θ) of the panel's two end
+    /// stations (see `WakeCurvature`).
+    fn sheet_of_defect(&self, curvature: &[f64]) -> Vec<[(usize, f64); 2]> {
+        let w0 = self.surface_nodes;
+        curvature
+            .iter()
+            .enumerate()
+            .map(|(k, kappa)| [(w0 + k, 0.5 * kappa), (w0 + k + 1, 0.5 * kappa)])
+            .collect()
+    }
+
+    /// The defect-influence matrix C of the interaction law (stations × stations): the surface
+    /// stations' edge speed response to the total defects of the wake stations through the
+    /// wake-curvature sheet, from the panel method's wake-vortex influence (rows: surface nodes;
+    /// columns: wake panels). Rows of wake stations are zero.
+    pub fn defect_influence(&self, wake_vortex: &DMatrix<f64>, curvature: &[f64]) -> DMatrix<f64> {
+        let n = self.layout.len();
+        let mut c = DMatrix::zeros(n, n);
+        for (k, pairs) in self.sheet_of_defect(curvature).iter().enumerate() {
+            for &(j, coefficient) in pairs.iter().filter(|(j, _)| *j < n) {
+                for g in 0..self.surface_nodes {
+                    let (row, sign) = self.row_of_station(g);
+                    c[(g, j)] += sign * coefficient * wake_vortex[(row, k)];
+                }
+            }
+        }
+        c
+    }
+
+    /// Wake-curvature sheet strength per wake panel from the wake stations of a solution.
+    pub fn wake_sheet(&self, curvature: &[f64], wake: &[StationState]) -> Vec<f64> {
+        let w0 = self.surface_nodes;
+        let defect = |j: usize| {
+            wake.get(j - w0).map_or(0.0, |w| {
+                w.edge_velocity * (w.displacement_thickness + w.momentum_thickness)
+            })
+        };
+        self.sheet_of_defect(curvature)
+            .iter()
+            .map(|pairs| pairs.iter().map(|&(j, c)| c * defect(j)).sum())
+            .collect()
+    }
+
     /// Inviscid edge speed at every station.
     pub fn inviscid_edge_velocity(&self, gamma: &[f64], wake_speed: &[f64]) -> Vec<f64> {
         (0..self.layout.len())
@@ -595,6 +639,7 @@ pub(crate) fn post_process(
         warm_start: WarmStart {
             topology: topo.clone(),
             state,
+            wake_sheet: Vec::new(),
         },
     }
 }

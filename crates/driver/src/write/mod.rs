@@ -240,6 +240,7 @@ pub(crate) mod test_support {
                 tolerance: 1e-6,
                 max_relocations: 10,
                 transition_entrainment_fraction: 0.5,
+                wake_curvature: true,
                 retry_cold: false,
                 max_step_halvings: 3,
                 give_up_after_failures: 2,
