@@ -14,8 +14,10 @@
 //!
 //! If it still fails it is kept, flagged with the reason of its first failure. A start point
 //! that fails cold (it has no neighbour) is approached from a lead-in solution at alpha 0°
-//! ([`SolveAt::lead_in`], not reported), where a cold start is most likely to succeed, so a
-//! list such as 5°…7° does not depend on a cold start at 5°. If that fails too, it is approached
+//! ([`SolveAt::lead_in`], not reported), where a cold start is most likely to succeed, through
+//! intermediate values at the requested spacing (at most a quarter of the way and at most
+//! [`MAX_LEAD_IN_STEPS`] of them), so a list such as 5°…7° or 10°…16° does not depend on a
+//! cold start at its first value. If that fails too, it is approached
 //! again from the first converged point above it before the downward march starts from it.
 //!
 //! Giving up: after [`SweepSettings::give_up_after_failures`] consecutive failures in one
@@ -206,6 +208,31 @@ impl<S: Clone> Direction<S> {
     }
 }
 
+/// Most intermediate values between a lead-in and the start it approaches.
+const MAX_LEAD_IN_STEPS: usize = 16;
+
+/// Intermediate values from a lead-in at `from` to the start `to` (both excluded), equally
+/// spaced at no more than the smallest gap between the requested `values` and no more than a
+/// quarter of the distance, and at most [`MAX_LEAD_IN_STEPS`] of them.
+fn lead_in_path(from: f64, to: f64, values: &[f64]) -> Vec<f64> {
+    let distance = to - from;
+    let mut sorted = values.to_vec();
+    sorted.sort_by(f64::total_cmp);
+    let gap = sorted
+        .windows(2)
+        .map(|w| w[1] - w[0])
+        .filter(|&g| g > 0.0)
+        .fold(f64::INFINITY, f64::min);
+    let spacing = gap.min(0.25 * distance.abs());
+    if !(spacing > 0.0 && distance.is_finite()) {
+        return Vec::new();
+    }
+    let intervals = ((distance.abs() / spacing).ceil() as usize).clamp(1, MAX_LEAD_IN_STEPS + 1);
+    (1..intervals)
+        .map(|k| from + distance * k as f64 / intervals as f64)
+        .collect()
+}
+
 /// Solves every value by continuation (module doc). `on_done(index, record)` is called once as
 /// each requested value is finished; the records come back in the order of `values`.
 pub(crate) fn continue_over<P: SolveAt>(
@@ -246,7 +273,18 @@ pub(crate) fn continue_over<P: SolveAt>(
         if let Some(lead) = solver.lead_in(start_value) {
             start_record.solves += 1;
             if let Ok(lead) = lead {
-                let (outcome, solves) = attempt(solver, start_value, Some(&lead), settings);
+                // Walk from the lead-in towards the start through intermediate values (not
+                // reported), each with the usual retries; stop at the first that fails.
+                let mut current = lead;
+                for value in lead_in_path(current.0, start_value, values) {
+                    let (outcome, solves) = attempt(solver, value, Some(&current), settings);
+                    start_record.solves += solves;
+                    match outcome {
+                        Outcome::Converged(solved) => current = (value, solved),
+                        _ => break,
+                    }
+                }
+                let (outcome, solves) = attempt(solver, start_value, Some(&current), settings);
                 if matches!(outcome, Outcome::Converged(_)) {
                     start_record.outcome = outcome;
                 }
@@ -759,13 +797,44 @@ mod tests {
         let (records, finished) = run(&solver, &[5.0, 6.0], &SweepSettings::default());
         assert_eq!(records[0].outcome, Outcome::Converged(5.0));
         assert_eq!(records[1].outcome, Outcome::Converged(6.0));
-        // Cold at 5 fails, the lead-in at 0, then 5 warm from it; 6 warm from 5.
-        assert_eq!(records[0].solves, 3);
+        // Cold at 5 fails, the lead-in at 0, then 1…4 (the requested spacing) and 5 each warm
+        // from the one before; 6 warm from 5.
+        assert_eq!(records[0].solves, 7);
         assert_eq!(
             *solver.calls.borrow(),
-            [(5.0, None), (0.0, None), (5.0, Some(0.0)), (6.0, Some(5.0))]
+            [
+                (5.0, None),
+                (0.0, None),
+                (1.0, Some(0.0)),
+                (2.0, Some(1.0)),
+                (3.0, Some(2.0)),
+                (4.0, Some(3.0)),
+                (5.0, Some(4.0)),
+                (6.0, Some(5.0))
+            ]
         );
         assert_eq!(finished, [0, 1]);
+    }
+
+    #[test]
+    fn a_start_far_from_the_lead_in_is_reached_in_steps() {
+        // Only warm starts from within 1.5 succeed, so 0 → 10 needs the intermediate values.
+        let solver = scripted(|v, warm| v != 0.0 && warm.is_none_or(|w| (v - w).abs() > 1.5));
+        let settings = SweepSettings {
+            max_step_halvings: 0,
+            ..SweepSettings::default()
+        };
+        let (records, _) = run(&solver, &[10.0, 11.0], &settings);
+        assert_eq!(records[0].outcome, Outcome::Converged(10.0));
+        assert_eq!(records[1].outcome, Outcome::Converged(11.0));
+        // Cold at 10, the lead-in, 1…9, then 10.
+        assert_eq!(records[0].solves, 12);
+        // A single requested value: quarter steps.
+        assert_eq!(lead_in_path(0.0, 10.0, &[10.0]), [2.5, 5.0, 7.5]);
+        // Capped at 16 intermediate values; spacing 0.5 would need 19.
+        let path = lead_in_path(0.0, -10.0, &[-10.0, -9.5]);
+        assert_eq!(path.len(), 16);
+        assert!((path[0] + 10.0 / 17.0).abs() < 1e-12);
     }
 
     #[test]
