@@ -64,6 +64,9 @@ pub struct PolarSettings {
     pub transition_entrainment_fraction: f64,
     /// True when the wake-curvature term was part of the interaction.
     pub wake_curvature: bool,
+    /// Largest continuation step from a converged neighbour, in the swept quantity (degrees
+    /// or cl); longer requested steps are walked through unreported intermediate values.
+    pub max_continuation_step: f64,
     /// True when a failed warm-started point was also retried cold by the sweep.
     pub retry_cold: bool,
     /// Step halvings allowed when approaching a failed point from its neighbour.

@@ -120,9 +120,17 @@ impl Targets {
     }
 }
 
-/// How a sweep recovers from failed points.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+/// How a sweep steps from point to point and recovers from failed points.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SweepSettings {
+    /// Largest step in alpha (degrees) from the converged neighbour a point is warm-started
+    /// from; a larger requested step is walked through intermediate values that are not
+    /// reported. Default 0.5° (our choice: a 1° step from 5° to 6° on the E387 at Re 2e5 can
+    /// land on a second, spurious solution with a laminar reattachment just ahead of
+    /// transition, which 0.5° steps do not reach).
+    pub max_alpha_step_deg: f64,
+    /// The same for target-cl sweeps, in cl (default 0.05, about 0.5° of alpha).
+    pub max_cl_step: f64,
     /// Retry a failed warm-started point cold before approaching it in steps. Off by default:
     /// `foilsweep_viscous::solve_point` already falls back to a cold start when a warm start
     /// fails, so the retry would repeat the same deterministic solve; set it for a solver that
@@ -140,6 +148,8 @@ pub struct SweepSettings {
 impl Default for SweepSettings {
     fn default() -> Self {
         Self {
+            max_alpha_step_deg: 0.5,
+            max_cl_step: 0.05,
             retry_cold: false,
             max_step_halvings: 3,
             give_up_after_failures: 2,

@@ -3,8 +3,10 @@
 //! Continuation within one Reynolds number ([`continue_over`]): the targets are ordered by value;
 //! the march starts at the requested value nearest zero (ties go to the larger value), goes
 //! upward through the larger values and then downward from the start through the smaller ones.
-//! Each point is warm-started from the last converged point of its direction. A point that
-//! fails (error or not converged) is retried
+//! Each point is warm-started from the last converged point of its direction; a requested step
+//! longer than [`SweepSettings::max_alpha_step_deg`] (or `max_cl_step`) is walked through
+//! equally spaced intermediate values that are not reported. A point that fails (error or not
+//! converged) is retried
 //! 1. cold (no warm start), if the first try was warm and [`SweepSettings::retry_cold`] is set
 //!    (off by default: `solve_point` itself falls back to a cold start when a warm start fails,
 //!    so a second cold solve would repeat the same deterministic computation);
@@ -104,8 +106,24 @@ fn attempt<P: SolveAt>(
     value: f64,
     neighbour: Option<&(f64, P::Solved)>,
     settings: &SweepSettings,
+    max_step: f64,
 ) -> (Outcome<P::Solved>, usize) {
-    let mut solves = 1;
+    let mut solves = 0;
+    // Walk a step longer than `max_step` through intermediate values (not reported); the
+    // retries below start from the last one that converged.
+    let mut walked = None;
+    if let Some((from, warm)) = neighbour {
+        for v in intermediate_values(*from, value, max_step) {
+            solves += 1;
+            let warm = walked.as_ref().map_or(warm, |(_, s)| s);
+            match solver.solve_at(v, Some(warm)) {
+                Ok(solved) => walked = Some((v, solved)),
+                Err(_) => break,
+            }
+        }
+    }
+    let neighbour = walked.as_ref().or(neighbour);
+    solves += 1;
     let first = match solver.solve_at(value, neighbour.map(|(_, s)| s)) {
         Ok(solved) => return (Outcome::Converged(solved), solves),
         Err(failure) => failure,
@@ -208,6 +226,19 @@ impl<S: Clone> Direction<S> {
     }
 }
 
+/// Values strictly between `from` and `to`, equally spaced at no more than `max_step` (none
+/// when the distance is within `max_step` or not finite).
+fn intermediate_values(from: f64, to: f64, max_step: f64) -> Vec<f64> {
+    let distance = to - from;
+    if !(max_step > 0.0 && distance.is_finite()) || distance.abs() <= max_step * (1.0 + 1e-9) {
+        return Vec::new();
+    }
+    let intervals = (distance.abs() / max_step * (1.0 - 1e-9)).ceil() as usize;
+    (1..intervals)
+        .map(|k| from + distance * k as f64 / intervals as f64)
+        .collect()
+}
+
 /// Most intermediate values between a lead-in and the start it approaches.
 const MAX_LEAD_IN_STEPS: usize = 16;
 
@@ -239,6 +270,7 @@ pub(crate) fn continue_over<P: SolveAt>(
     solver: &P,
     values: &[f64],
     settings: &SweepSettings,
+    max_step: f64,
     on_done: &mut dyn FnMut(usize, &Record<P::Solved>),
 ) -> Vec<Record<P::Solved>> {
     let (upward, downward) = march_order(values);
@@ -255,7 +287,7 @@ pub(crate) fn continue_over<P: SolveAt>(
             let (outcome, solves) = if direction.gave_up(solver, settings) {
                 (Outcome::NotAttempted, 0)
             } else {
-                attempt(solver, value, direction.neighbour(), settings)
+                attempt(solver, value, direction.neighbour(), settings, max_step)
             };
             direction.record(value, &outcome);
             let record = Record { outcome, solves };
@@ -266,7 +298,7 @@ pub(crate) fn continue_over<P: SolveAt>(
 
     let mut records: Records<P::Solved> = vec![None; values.len()];
     let start_value = values[start];
-    let (outcome, solves) = attempt(solver, start_value, None, settings);
+    let (outcome, solves) = attempt(solver, start_value, None, settings, max_step);
     let mut start_record = Record { outcome, solves };
     // A start that failed cold is approached from the lead-in solution.
     if matches!(start_record.outcome, Outcome::Failed(_)) {
@@ -277,14 +309,16 @@ pub(crate) fn continue_over<P: SolveAt>(
                 // reported), each with the usual retries; stop at the first that fails.
                 let mut current = lead;
                 for value in lead_in_path(current.0, start_value, values) {
-                    let (outcome, solves) = attempt(solver, value, Some(&current), settings);
+                    let (outcome, solves) =
+                        attempt(solver, value, Some(&current), settings, max_step);
                     start_record.solves += solves;
                     match outcome {
                         Outcome::Converged(solved) => current = (value, solved),
                         _ => break,
                     }
                 }
-                let (outcome, solves) = attempt(solver, start_value, Some(&current), settings);
+                let (outcome, solves) =
+                    attempt(solver, start_value, Some(&current), settings, max_step);
                 if matches!(outcome, Outcome::Converged(_)) {
                     start_record.outcome = outcome;
                 }
@@ -305,7 +339,7 @@ pub(crate) fn continue_over<P: SolveAt>(
     march(upward, &mut up, &mut records, on_done);
     // A start that failed cold is approached again from the first converged point above it.
     if let (Outcome::Failed(_), Some(from)) = (&start_record.outcome, &up.first_converged) {
-        let (outcome, solves) = attempt(solver, start_value, Some(from), settings);
+        let (outcome, solves) = attempt(solver, start_value, Some(from), settings, max_step);
         if matches!(outcome, Outcome::Converged(_)) {
             start_record.outcome = outcome;
         }
@@ -451,6 +485,14 @@ fn polar_point(
     }
 }
 
+/// The largest continuation step of `request` in its swept quantity.
+fn max_continuation_step(request: &PolarRequest) -> f64 {
+    match request.targets {
+        Targets::AlphaDeg(_) => request.sweep.max_alpha_step_deg,
+        Targets::Cl(_) => request.sweep.max_cl_step,
+    }
+}
+
 fn polar_settings(request: &PolarRequest) -> PolarSettings {
     let ViscousSettings {
         wake_length,
@@ -477,6 +519,7 @@ fn polar_settings(request: &PolarRequest) -> PolarSettings {
         max_relocations,
         transition_entrainment_fraction,
         wake_curvature,
+        max_continuation_step: max_continuation_step(request),
         retry_cold: request.sweep.retry_cold,
         max_step_halvings: request.sweep.max_step_halvings,
         give_up_after_failures: request.sweep.give_up_after_failures,
@@ -512,13 +555,17 @@ pub fn run_polar(
                     ));
                 }
             };
-            continue_over(&solver, values, &request.sweep, &mut report)
-                .iter()
-                .zip(values)
-                .map(|(record, &value)| {
-                    polar_point(request, reynolds, value, record, give_up_after)
-                })
-                .collect()
+            continue_over(
+                &solver,
+                values,
+                &request.sweep,
+                max_continuation_step(request),
+                &mut report,
+            )
+            .iter()
+            .zip(values)
+            .map(|(record, &value)| polar_point(request, reynolds, value, record, give_up_after))
+            .collect()
         })
         .collect();
     Ok(Polar {
@@ -593,7 +640,9 @@ mod tests {
         settings: &SweepSettings,
     ) -> (Vec<Record<f64>>, Vec<usize>) {
         let mut finished = Vec::new();
-        let records = continue_over(solver, values, settings, &mut |i, _| finished.push(i));
+        let records = continue_over(solver, values, settings, f64::INFINITY, &mut |i, _| {
+            finished.push(i)
+        });
         (records, finished)
     }
 
@@ -686,6 +735,7 @@ mod tests {
             retry_cold: true,
             max_step_halvings: 3,
             give_up_after_failures: 0,
+            ..SweepSettings::default()
         };
         let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &settings);
         let calls: Vec<f64> = solver.calls.borrow()[2..].iter().map(|c| c.0).collect();
@@ -713,6 +763,7 @@ mod tests {
             retry_cold: false,
             max_step_halvings: 0,
             give_up_after_failures: 2,
+            ..SweepSettings::default()
         };
         let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &settings);
         assert!(matches!(records[1].outcome, Outcome::Failed(_)));
@@ -817,6 +868,40 @@ mod tests {
     }
 
     #[test]
+    fn a_long_step_is_walked_through_intermediate_values() {
+        // Warm starts from more than 0.6 away fail, so 1° steps need the 0.5° walk.
+        let solver = scripted(|v, warm| warm.is_some_and(|w| (v - w).abs() > 0.6));
+        let settings = SweepSettings {
+            max_step_halvings: 0,
+            ..SweepSettings::default()
+        };
+        let records = continue_over(&solver, &[0.0, 1.0, 2.0], &settings, 0.5, &mut |_, _| {});
+        assert!(records
+            .iter()
+            .all(|r| matches!(r.outcome, Outcome::Converged(_))));
+        assert_eq!(
+            *solver.calls.borrow(),
+            [
+                (0.0, None),
+                (0.5, Some(0.0)),
+                (1.0, Some(0.5)),
+                (1.5, Some(1.0)),
+                (2.0, Some(1.5))
+            ]
+        );
+        assert_eq!(records[1].solves, 2);
+        assert_eq!(intermediate_values(0.0, 1.0, 0.5), [0.5]);
+        assert_eq!(intermediate_values(0.0, 0.5, 0.5), Vec::<f64>::new());
+        assert_eq!(
+            intermediate_values(0.0, 1.0, f64::INFINITY),
+            Vec::<f64>::new()
+        );
+        let thirds = intermediate_values(2.0, 1.0, 0.4);
+        assert_eq!(thirds.len(), 2);
+        assert!((thirds[0] - 5.0 / 3.0).abs() < 1e-12);
+    }
+
+    #[test]
     fn a_start_far_from_the_lead_in_is_reached_in_steps() {
         // Only warm starts from within 1.5 succeed, so 0 → 10 needs the intermediate values.
         let solver = scripted(|v, warm| v != 0.0 && warm.is_none_or(|w| (v - w).abs() > 1.5));
@@ -844,6 +929,7 @@ mod tests {
             retry_cold: true,
             max_step_halvings: 0,
             give_up_after_failures: 2,
+            ..SweepSettings::default()
         };
         let (records, _) = run(&solver, &[-1.0, 0.0, 1.0], &settings);
         assert_eq!(kind(&records[1]), "failed");

@@ -241,6 +241,7 @@ pub(crate) mod test_support {
                 max_relocations: 10,
                 transition_entrainment_fraction: 0.5,
                 wake_curvature: true,
+                max_continuation_step: 0.5,
                 retry_cold: false,
                 max_step_halvings: 3,
                 give_up_after_failures: 2,
