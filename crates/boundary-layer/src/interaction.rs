@@ -1294,6 +1294,13 @@ pub fn solve(
             if s.theta.len() == layout.len()
                 && s.first_turbulent.len() == layout.surfaces.len() =>
         {
+            // A warm start's transition intervals are moved at once to where the N march of
+            // the mapped state puts them (as for a settled iterate), rather than a station per
+            // iteration: a neighbour's interval can be far from this point's (a trip that the
+            // stagnation point has passed; a bubble that moved).
+            let mut s = s;
+            let mut moved_from = vec![None; layout.surfaces.len()];
+            update_transition(layout, coupling, settings, &mut s, true, &mut moved_from);
             newton(layout, coupling, settings, s)
         }
         _ => {
