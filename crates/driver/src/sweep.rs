@@ -246,7 +246,7 @@ const MAX_LEAD_IN_STEPS: usize = 16;
 /// spaced at no more than the smallest gap between the requested `values` and no more than a
 /// quarter of the distance, and at most [`MAX_LEAD_IN_STEPS`] of them.
 fn lead_in_path(from: f64, to: f64, values: &[f64]) -> Vec<f64> {
-    let distance = to - from;
+    let distance = (to - from).abs();
     let mut sorted = values.to_vec();
     sorted.sort_by(f64::total_cmp);
     let gap = sorted
@@ -254,14 +254,10 @@ fn lead_in_path(from: f64, to: f64, values: &[f64]) -> Vec<f64> {
         .map(|w| w[1] - w[0])
         .filter(|&g| g > 0.0)
         .fold(f64::INFINITY, f64::min);
-    let spacing = gap.min(0.25 * distance.abs());
-    if !(spacing > 0.0 && distance.is_finite()) {
-        return Vec::new();
-    }
-    let intervals = ((distance.abs() / spacing).ceil() as usize).clamp(1, MAX_LEAD_IN_STEPS + 1);
-    (1..intervals)
-        .map(|k| from + distance * k as f64 / intervals as f64)
-        .collect()
+    let spacing = gap
+        .min(0.25 * distance)
+        .max(distance / (MAX_LEAD_IN_STEPS + 1) as f64);
+    intermediate_values(from, to, spacing)
 }
 
 /// Solves every value by continuation (module doc). `on_done(index, record)` is called once as
