@@ -239,8 +239,9 @@ fn intermediate_values(from: f64, to: f64, max_step: f64) -> Vec<f64> {
         .collect()
 }
 
-/// Most intermediate values between a lead-in and the start it approaches (our choice: 16 steps
-/// cover 10° at the 0.5° continuation limit with room to spare).
+/// Most intermediate values between a lead-in and the start it approaches (our choice: 16 keep
+/// 0.5° steps up to a start at 8.5°; a farther start is approached in proportionally longer
+/// steps, each then walked at the continuation limit by `attempt`).
 const MAX_LEAD_IN_STEPS: usize = 16;
 
 /// Intermediate values from a lead-in at `from` to the start `to` (both excluded), equally
