@@ -14,7 +14,13 @@
 //!    step after each failure up to [`SweepSettings::max_step_halvings`] times; the intermediate
 //!    values only warm up the solver and are not reported.
 //!
-//! If it still fails it is kept, flagged with the reason of its first failure. A start point
+//! A run of failed points that the march gets past (it converges at a value beyond them) is
+//! given a second chance from that side: walked back from the converged point beyond, each with
+//! the same retries, until one still fails (a continuation can fail on its way up a branch yet
+//! reach the same branch from the far side; near a laminar bubble the discrete equations have
+//! more than one root and the approach decides which one Newton finds). Failed points are
+//! reported after that second chance. If a point still fails it is kept, flagged with the reason
+//! of its first failure and the approaches that were tried. A start point
 //! that fails cold (it has no neighbour) is approached from a lead-in solution at alpha 0°
 //! ([`SolveAt::lead_in`], not reported), where a cold start is most likely to succeed, through
 //! intermediate values at the requested spacing (at most a quarter of the way and at most
@@ -262,6 +268,41 @@ fn lead_in_path(from: f64, to: f64, values: &[f64]) -> Vec<f64> {
     intermediate_values(from, to, spacing)
 }
 
+/// Second chance for a run of failed points (`pending`, in march order) that the march has
+/// passed: each is approached from the converged point just beyond it (`beyond`), walking back
+/// towards the last converged point before the run, with the usual retries. Stops at the first
+/// that still fails; it and the rest keep their first failure, with the approach named.
+fn approach_from_beyond<P: SolveAt>(
+    solver: &P,
+    values: &[f64],
+    pending: &mut [(usize, Record<P::Solved>)],
+    beyond: (f64, P::Solved),
+    settings: &SweepSettings,
+    max_step: f64,
+) {
+    let mut from = beyond;
+    for (index, record) in pending.iter_mut().rev() {
+        let value = values[*index];
+        let (outcome, solves) = attempt(solver, value, Some(&from), settings, max_step);
+        record.solves += solves;
+        match outcome {
+            Outcome::Converged(solved) => {
+                from = (value, solved.clone());
+                record.outcome = Outcome::Converged(solved);
+            }
+            _ => {
+                if let Outcome::Failed(failure) = &mut record.outcome {
+                    failure.reason = format!(
+                        "{}; an approach from {} on the far side also failed",
+                        failure.reason, from.0
+                    );
+                }
+                return;
+            }
+        }
+    }
+}
+
 /// Solves every value by continuation (module doc). `on_done(index, record)` is called once as
 /// each requested value is finished; the records come back in the order of `values`.
 pub(crate) fn continue_over<P: SolveAt>(
@@ -280,6 +321,9 @@ pub(crate) fn continue_over<P: SolveAt>(
                  direction: &mut Direction<P::Solved>,
                  records: &mut Records<P::Solved>,
                  on_done: &mut dyn FnMut(usize, &Record<P::Solved>)| {
+        // Failed points since the last converged one, in march order; reported once the
+        // march has converged past them and they have had their approach from the far side.
+        let mut pending: Vec<(usize, Record<P::Solved>)> = Vec::new();
         for &index in order {
             let value = values[index];
             let (outcome, solves) = if direction.gave_up(solver, settings) {
@@ -289,8 +333,31 @@ pub(crate) fn continue_over<P: SolveAt>(
             };
             direction.record(value, &outcome);
             let record = Record { outcome, solves };
-            on_done(index, &record);
-            records[index] = Some(record);
+            match &record.outcome {
+                Outcome::Failed(_) => {
+                    pending.push((index, record));
+                    continue;
+                }
+                Outcome::Converged(solved) => {
+                    approach_from_beyond(
+                        solver,
+                        values,
+                        &mut pending,
+                        (value, solved.clone()),
+                        settings,
+                        max_step,
+                    );
+                }
+                Outcome::NotAttempted => {}
+            }
+            for (failed, failed_record) in pending.drain(..).chain([(index, record)]) {
+                on_done(failed, &failed_record);
+                records[failed] = Some(failed_record);
+            }
+        }
+        for (failed, failed_record) in pending {
+            on_done(failed, &failed_record);
+            records[failed] = Some(failed_record);
         }
     };
 
@@ -764,9 +831,48 @@ mod tests {
             ..SweepSettings::default()
         };
         let (records, _) = run(&solver, &[0.0, 2.0, 4.0], &settings);
-        assert!(matches!(records[1].outcome, Outcome::Failed(_)));
         assert_eq!(records[2].outcome, Outcome::Converged(4.0));
-        assert_eq!(solver.calls.borrow().last(), Some(&(4.0, Some(0.0))));
+        // 4 from 0, then the failed 2 once more from 4, beyond it.
+        assert_eq!(
+            solver.calls.borrow()[2..],
+            [(4.0, Some(0.0)), (2.0, Some(4.0))]
+        );
+        match &records[1].outcome {
+            Outcome::Failed(failure) => assert_eq!(
+                failure.reason,
+                "scripted failure at 2; an approach from 4 on the far side also failed"
+            ),
+            other => panic!("expected a failure, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn failed_points_are_approached_again_from_beyond_and_reported_in_turn() {
+        // 2 and 3 fail when approached from below, converge from above; 4 converges from 1.
+        let solver = scripted(|v, warm| (v == 2.0 || v == 3.0) && warm.is_some_and(|w| w < v));
+        let settings = SweepSettings {
+            max_step_halvings: 0,
+            ..SweepSettings::default()
+        };
+        let values = [0.0, 1.0, 2.0, 3.0, 4.0, 5.0];
+        let (records, finished) = run(&solver, &values, &settings);
+        for (record, value) in records.iter().zip(values) {
+            assert_eq!(record.outcome, Outcome::Converged(value));
+        }
+        assert_eq!(
+            solver.calls.borrow()[2..],
+            [
+                (2.0, Some(1.0)),
+                (3.0, Some(1.0)),
+                (4.0, Some(1.0)),
+                (3.0, Some(4.0)), // the run of failures, walked back from 4
+                (2.0, Some(3.0)),
+                (5.0, Some(4.0)),
+            ]
+        );
+        // Each failed point is reported once, after its second chance, in march order.
+        assert_eq!(finished, [0, 1, 2, 3, 4, 5]);
+        assert_eq!((records[2].solves, records[3].solves), (2, 2));
     }
 
     #[test]
