@@ -1275,20 +1275,6 @@ fn assemble(
     (jac, rhs, ue)
 }
 
-/// Solves the dense Newton system `jac · x = rhs` by LU factorisation with partial pivoting
-/// (blocked, from `faer`: the factorisation is about nine tenths of the cost of a point, and
-/// the blocked one is several times faster than an unblocked one at the 3n ≈ 600 unknowns of
-/// a 160-panel section). `None` when the matrix is singular (a non-finite solution).
-fn solve_dense(jac: &DMatrix<f64>, rhs: &DVector<f64>) -> Option<DVector<f64>> {
-    use faer::prelude::Solve;
-    let n = jac.nrows();
-    let lu = faer::MatRef::from_column_major_slice(jac.as_slice(), n, jac.ncols()).partial_piv_lu();
-    let mut x = faer::Mat::<f64>::from_fn(n, 1, |i, _| rhs[i]);
-    lu.solve_in_place(x.as_mut());
-    let x = DVector::from_fn(n, |i, _| x[(i, 0)]);
-    x.iter().all(|v| v.is_finite()).then_some(x)
-}
-
 /// Runs the global Newton iteration from `initial` (a warm start), or, when `None`, from the
 /// direct [`initial_march`] and, if that does not converge, from the quasi-simultaneous one.
 pub fn solve(
@@ -1359,7 +1345,7 @@ fn newton(
         let ctx = Context::new(layout, settings, &state);
         let (jac, rhs, ue) = assemble(&ctx, coupling, &derivatives, &state);
         residual_history.push(rhs.norm());
-        let Some(delta) = solve_dense(&jac, &rhs) else {
+        let Some(delta) = crate::dense::solve(&jac, &rhs) else {
             return Err(InteractionError::Singular { iteration });
         };
         let mut rlx: f64 = 1.0;

@@ -19,6 +19,7 @@
 //!   of the table-based laminar closure `closure::laminar_table`.
 //! - [`equations`] and [`interaction`]: discrete residuals of the interacting equations and the
 //!   Newton solver with an interaction matrix (the coupled, "full" mode).
+//! - `dense` (private): the blocked LU that solves the dense Newton system of the coupling.
 //! - [`state`]: per-station results ([`state::StationState`], [`state::Regime`]) and events
 //!   ([`state::Event`]) shared by all marches.
 //! - [`error::BoundaryLayerError`]: every bad input and failure, with the station index.
@@ -47,6 +48,7 @@
 #![warn(missing_docs)]
 
 pub mod closure;
+mod dense;
 pub mod direct;
 pub mod equations;
 pub mod error;
