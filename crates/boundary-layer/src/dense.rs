@@ -19,15 +19,19 @@ use nalgebra::{DMatrix, DVector};
 /// scatter of about 20 %).
 const BLOCK: usize = 48;
 
-/// Solves `a · x = b` for square `a`. `None` if `a` is singular (a zero pivot) or the solution
-/// is not finite.
-pub(crate) fn solve(a: &DMatrix<f64>, b: &DVector<f64>) -> Option<DVector<f64>> {
+/// Solves `a · x = b` for square `a`, factorising `a` in place (it is consumed). `None` if `a`
+/// is singular (a zero pivot) or the solution is not finite.
+pub(crate) fn solve(a: DMatrix<f64>, b: &DVector<f64>) -> Option<DVector<f64>> {
     let n = a.nrows();
     if a.ncols() != n || b.len() != n {
         return None;
     }
-    let mut lu = a.clone();
+    let mut lu = a;
     let mut pivots = vec![0usize; n];
+    // Copies of the current L21 and U12 blocks for the product (allocated once).
+    let width = BLOCK.min(n);
+    let mut l21 = DMatrix::<f64>::zeros(n, width);
+    let mut u12 = DMatrix::<f64>::zeros(width, n);
     for k in (0..n).step_by(BLOCK) {
         let kb = BLOCK.min(n - k);
         // Unblocked elimination of the panel of columns k..k+kb, rows swapped across the
@@ -81,8 +85,10 @@ pub(crate) fn solve(a: &DMatrix<f64>, b: &DVector<f64>) -> Option<DVector<f64>> 
             }
         }
         // A22 −= L21 U12.
-        let l21 = lu.view((k + kb, k), (rest, kb)).clone_owned();
-        let u12 = lu.view((k, k + kb), (kb, rest)).clone_owned();
+        let mut l21 = l21.view_mut((0, 0), (rest, kb));
+        l21.copy_from(&lu.view((k + kb, k), (rest, kb)));
+        let mut u12 = u12.view_mut((0, 0), (kb, rest));
+        u12.copy_from(&lu.view((k, k + kb), (kb, rest)));
         lu.view_mut((k + kb, k + kb), (rest, rest))
             .gemm(-1.0, &l21, &u12, 1.0);
     }
@@ -137,7 +143,7 @@ mod tests {
         for n in [1, 5, BLOCK, BLOCK + 1, 2 * BLOCK + 7, 300] {
             let a = matrix(n);
             let b = DVector::from_fn(n, |i, _| (i as f64 * 0.37).sin());
-            let blocked = solve(&a, &b).expect("regular");
+            let blocked = solve(a.clone(), &b).expect("regular");
             let reference = a.clone().lu().solve(&b).expect("regular");
             let scale = reference.amax();
             for (x, y) in blocked.iter().zip(reference.iter()) {
@@ -157,16 +163,16 @@ mod tests {
         // Zero leading pivot: without row exchanges the elimination would divide by zero.
         let a = DMatrix::from_row_slice(3, 3, &[0.0, 2.0, 1.0, 1.0, 1.0, 0.0, 3.0, 0.0, 1.0]);
         let x = DVector::from_vec(vec![1.0, -2.0, 0.5]);
-        let solved = solve(&a, &(&a * &x)).expect("regular");
+        let solved = solve(a.clone(), &(&a * &x)).expect("regular");
         assert!((solved - x).amax() < 1e-14);
     }
 
     #[test]
     fn singular_or_non_finite_systems_give_none() {
         let singular = DMatrix::from_row_slice(2, 2, &[1.0, 2.0, 2.0, 4.0]);
-        assert!(solve(&singular, &DVector::from_vec(vec![1.0, 1.0])).is_none());
+        assert!(solve(singular, &DVector::from_vec(vec![1.0, 1.0])).is_none());
         let nan = DMatrix::from_row_slice(2, 2, &[1.0, f64::NAN, 0.0, 1.0]);
-        assert!(solve(&nan, &DVector::from_vec(vec![1.0, 1.0])).is_none());
-        assert!(solve(&DMatrix::identity(2, 2), &DVector::from_vec(vec![1.0])).is_none());
+        assert!(solve(nan, &DVector::from_vec(vec![1.0, 1.0])).is_none());
+        assert!(solve(DMatrix::identity(2, 2), &DVector::from_vec(vec![1.0])).is_none());
     }
 }

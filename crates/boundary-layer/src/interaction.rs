@@ -1345,7 +1345,7 @@ fn newton(
         let ctx = Context::new(layout, settings, &state);
         let (jac, rhs, ue) = assemble(&ctx, coupling, &derivatives, &state);
         residual_history.push(rhs.norm());
-        let Some(delta) = crate::dense::solve(&jac, &rhs) else {
+        let Some(delta) = crate::dense::solve(jac, &rhs) else {
             return Err(InteractionError::Singular { iteration });
         };
         let mut rlx: f64 = 1.0;
