@@ -97,22 +97,9 @@ pub(crate) fn solve(a: DMatrix<f64>, b: &DVector<f64>) -> Option<DVector<f64>> {
     for (j, &p) in pivots.iter().enumerate() {
         x.swap_rows(j, p);
     }
-    for j in 0..n {
-        let xj = x[j];
-        if xj != 0.0 {
-            for i in j + 1..n {
-                x[i] -= lu[(i, j)] * xj;
-            }
-        }
-    }
-    for j in (0..n).rev() {
-        x[j] /= lu[(j, j)];
-        let xj = x[j];
-        if xj != 0.0 {
-            for i in 0..j {
-                x[i] -= lu[(i, j)] * xj;
-            }
-        }
+    lu.solve_lower_triangular_with_diag_mut(&mut x, 1.0);
+    if !lu.solve_upper_triangular_mut(&mut x) {
+        return None;
     }
     x.iter().all(|v| v.is_finite()).then_some(x)
 }
