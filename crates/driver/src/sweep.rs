@@ -20,8 +20,9 @@
 //! reach the same branch from the far side; near a laminar bubble the discrete equations have
 //! more than one root and the approach decides which one Newton finds). Failed points are
 //! reported after that second chance. If a point still fails it is kept, flagged with the reason
-//! of its first failure and the approaches that were tried. A start point
-//! that fails cold (it has no neighbour) is approached from a lead-in solution at alpha 0°
+//! of its first failure and the approaches that were tried.
+//!
+//! A start point that fails cold (it has no neighbour) is approached from a lead-in solution at alpha 0°
 //! ([`SolveAt::lead_in`], not reported), where a cold start is most likely to succeed, through
 //! intermediate values at the requested spacing (at most a quarter of the way and at most
 //! [`MAX_LEAD_IN_STEPS`] of them), so a list such as 5°…7° or 10°…16° does not depend on a
@@ -277,8 +278,8 @@ const MAX_FAR_SIDE_HALVINGS: u32 = 1;
 /// Second chance for a run of failed points (`pending`, in march order) that the march has
 /// passed: each is approached from the converged point just beyond it (`beyond`), walking back
 /// towards the last converged point before the run, with the usual retries but at most
-/// [`MAX_FAR_SIDE_HALVINGS`] step halvings. Stops at the first that still fails; it and the rest
-/// keep their first failure, with the approach named.
+/// [`MAX_FAR_SIDE_HALVINGS`] step halvings. Stops at the first that still fails: its flag gains
+/// the far-side approach; the points before it (not tried again) keep their first failure.
 fn approach_from_beyond<P: SolveAt>(
     solver: &P,
     values: &[f64],
