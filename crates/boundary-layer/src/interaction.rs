@@ -20,11 +20,10 @@
 //!
 //! Not done here: locating the stagnation point or building `D` (the caller's job).
 
-use std::borrow::Cow;
-
 use nalgebra::{DMatrix, DVector};
 
 use crate::closure::{lag_entrainment, laminar};
+use crate::dense::BorderedSystem;
 use crate::equations::{self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT};
 use crate::state::{Event, EventKind, Regime, StationState, TransitionKind};
 
@@ -154,9 +153,10 @@ pub struct Coupling<'a> {
 
 /// The interaction law's derivatives; the law is linear, so they are fixed for one coupling
 /// and are built once per Newton solve.
-struct Derivatives<'a> {
-    /// ∂ue_i/∂m_j = D + C (D itself, borrowed, when there is no C).
-    d_mass: Cow<'a, DMatrix<f64>>,
+struct Derivatives {
+    /// ∂ue_i/∂m_j = (D + C)_ij stored transposed, at `[(j, i)]`: column i holds the derivatives
+    /// of station i's edge speed, the order in which a row of the Newton matrix reads them.
+    d_mass_by_station: DMatrix<f64>,
     /// ∂ue_i/∂θ_j = C_ij ue_inviscid_j for the columns `j` listed (all others are zero).
     d_theta: Vec<(usize, DVector<f64>)>,
 }
@@ -193,10 +193,10 @@ impl<'a> Coupling<'a> {
     }
 
     /// The derivatives of the edge speeds with respect to m and θ (the same at every state).
-    fn derivatives(&self) -> Derivatives<'a> {
+    fn derivatives(&self) -> Derivatives {
         let Some(c) = self.defect_influence else {
             return Derivatives {
-                d_mass: Cow::Borrowed(self.influence),
+                d_mass_by_station: self.influence.transpose(),
                 d_theta: Vec::new(),
             };
         };
@@ -205,7 +205,7 @@ impl<'a> Coupling<'a> {
             .map(|j| (j, c.column(j) * self.edge_velocity_inviscid[j]))
             .collect();
         Derivatives {
-            d_mass: Cow::Owned(self.influence + c),
+            d_mass_by_station: (self.influence + c).transpose(),
             d_theta,
         }
     }
@@ -1233,17 +1233,42 @@ fn update_transition(
     changed
 }
 
-/// Assembles the Newton system J·Δ = −R for all stations (dense, 3n × 3n).
+/// The empty Newton matrix of `n` stations: local columns (θ outside the defect-influence
+/// columns, and N or C_E, which only the residuals of their own station and of the next one
+/// read) in station order, then the dense columns: every m (position j for station j), then
+/// the θ of the defect-influence columns (position n + t for the t-th of them).
+fn newton_matrix(n: usize, derivatives: &Derivatives) -> BorderedSystem {
+    let theta_is_dense = |g: usize| derivatives.d_theta.iter().any(|(j, _)| *j == g);
+    let local = (0..n)
+        .flat_map(|g| {
+            (!theta_is_dense(g))
+                .then_some(3 * g)
+                .into_iter()
+                .chain(std::iter::once(3 * g + 2))
+        })
+        .collect();
+    let dense = (0..n)
+        .map(|j| 3 * j + 1)
+        .chain(derivatives.d_theta.iter().map(|(j, _)| 3 * j))
+        .collect();
+    BorderedSystem::new(local, dense).expect("every station's three columns are listed once")
+}
+
+/// Assembles the Newton system J·Δ = −R for all stations into `jac` (zero on entry, laid out
+/// by [`newton_matrix`]).
 fn assemble(
     ctx: &Context,
     coupling: &Coupling,
     derivatives: &Derivatives,
     state: &InteractionState,
-) -> (DMatrix<f64>, DVector<f64>, Vec<f64>) {
+    mut jac: BorderedSystem,
+) -> (BorderedSystem, DVector<f64>, Vec<f64>) {
     let n = ctx.layout.len();
     let ue = coupling.edge_velocity(&state.mass_defect, &state.theta);
-    let Derivatives { d_mass, d_theta } = derivatives;
-    let mut jac = DMatrix::<f64>::zeros(3 * n, 3 * n);
+    let Derivatives {
+        d_mass_by_station,
+        d_theta,
+    } = derivatives;
     let mut rhs = DVector::<f64>::zeros(3 * n);
     for g in 0..n {
         let deps = ctx.dependencies(g);
@@ -1255,18 +1280,22 @@ fn assemble(
         for (&d, jd) in deps.iter().zip(&local) {
             for (e, derivative) in jd.iter().enumerate() {
                 let row = 3 * g + e;
-                jac[(row, 3 * d)] += derivative[0];
-                jac[(row, 3 * d + 1)] += derivative[1];
-                jac[(row, 3 * d + 2)] += derivative[2];
+                for (v, &value) in derivative[..3].iter().enumerate() {
+                    jac.add(row, 3 * d + v, value);
+                }
                 let due = derivative[3];
                 if due != 0.0 {
                     // ue_d depends on every m_j through the interaction matrix, and on the
                     // θ_j of the defect-influence columns.
-                    for j in 0..n {
-                        jac[(row, 3 * j + 1)] += due * d_mass[(d, j)];
+                    let dense = jac.dense_row_mut(row);
+                    for (x, dm) in dense[..n]
+                        .iter_mut()
+                        .zip(d_mass_by_station.column(d).iter())
+                    {
+                        *x += due * dm;
                     }
-                    for (j, column) in d_theta {
-                        jac[(row, 3 * j)] += due * column[d];
+                    for (x, (_, column)) in dense[n..].iter_mut().zip(d_theta) {
+                        *x += due * column[d];
                     }
                 }
             }
@@ -1340,12 +1369,13 @@ fn newton(
     // Per surface, where the interval was before its last move in the current run of moves.
     let mut moved_from = vec![None; layout.surfaces.len()];
     let derivatives = coupling.derivatives();
+    let empty_matrix = newton_matrix(n, &derivatives);
     for iteration in 0..settings.max_iterations {
         iterations = iteration + 1;
         let ctx = Context::new(layout, settings, &state);
-        let (jac, rhs, ue) = assemble(&ctx, coupling, &derivatives, &state);
+        let (jac, rhs, ue) = assemble(&ctx, coupling, &derivatives, &state, empty_matrix.clone());
         residual_history.push(rhs.norm());
-        let Some(delta) = crate::dense::solve(jac, &rhs) else {
+        let Some(delta) = jac.solve(&rhs) else {
             return Err(InteractionError::Singular { iteration });
         };
         let mut rlx: f64 = 1.0;
@@ -1708,7 +1738,10 @@ mod tests {
                 .collect();
             let column_t = lin.d_theta.iter().find(|(k, _)| *k == j).map(|(_, c)| c);
             for i in 0..n {
-                assert!((lin.d_mass[(i, j)] - dm[i]).abs() < 1e-7, "dm ({i},{j})");
+                assert!(
+                    (lin.d_mass_by_station[(j, i)] - dm[i]).abs() < 1e-7,
+                    "dm ({i},{j})"
+                );
                 let analytic = column_t.map_or(0.0, |c| c[i]);
                 assert!((analytic - dt[i]).abs() < 1e-7, "dθ ({i},{j})");
             }
