@@ -1102,6 +1102,11 @@ pub fn residuals(
 /// Hysteresis of the transition bookkeeping: the transition interval is kept while the
 /// (smoothly continued) transition fraction stays within [−margin, 1 + margin].
 const TRANSITION_MARGIN: f64 = 0.1;
+/// Newton iterations without a new smallest residual after which the transition intervals are
+/// re-decided with the tight margin (our choice, no source: long enough for the damped steps
+/// of a bubble that is still forming, which raise the residual for a few iterations before it
+/// falls).
+const STAGNATION_ITERATIONS: usize = 8;
 /// Largest move of the transition interval (stations) per Newton iteration while the iterate is
 /// still far from converged.
 const MAX_TRANSITION_STEP: usize = 1;
@@ -1370,6 +1375,8 @@ fn newton(
     let mut moved_from = vec![None; layout.surfaces.len()];
     let derivatives = coupling.derivatives();
     let empty_matrix = newton_matrix(n, &derivatives);
+    // Smallest residual norm since the last move of a transition interval, and its iteration.
+    let mut best_residual = (f64::INFINITY, 0);
     for iteration in 0..settings.max_iterations {
         iterations = iteration + 1;
         let ctx = Context::new(layout, settings, &state);
@@ -1446,7 +1453,16 @@ fn newton(
             && residual_history[residual_history.len() - 3..]
                 .iter()
                 .all(|r| (r / old_norm - 1.0).abs() < 0.01);
-        let settled = (rlx >= 1.0 && biggest < 0.05) || stalled;
+        // Likewise an iteration that has wandered for STAGNATION_ITERATIONS without improving
+        // on its smallest residual since the last move of an interval (E387 Re 1e6, −2.25°: the
+        // upper transition point sat just past its interval, and the damped iterate wandered
+        // with the residual between 2 and 27 for 130 iterations until the extended fraction
+        // happened to saturate; after the move it converged in ten).
+        if old_norm < best_residual.0 {
+            best_residual = (old_norm, iteration);
+        }
+        let stagnating = iteration >= best_residual.1 + STAGNATION_ITERATIONS;
+        let settled = (rlx >= 1.0 && biggest < 0.05) || stalled || stagnating;
         let moved = update_transition(
             layout,
             coupling,
@@ -1455,7 +1471,9 @@ fn newton(
             settled,
             &mut moved_from,
         );
-        if !moved {
+        if moved {
+            best_residual = (f64::INFINITY, iteration);
+        } else {
             // A run of moves has ended: a later move back is not a cycle.
             moved_from.fill(None);
         }
