@@ -375,17 +375,19 @@ fn solve_alpha(
     // A warm start is tried first; if it does not converge the point starts afresh from the
     // initial march, then by Reynolds-number continuation; a converged result is returned, else
     // the one of the first two with the smaller final residual, flagged.
-    let warm_result = warm.map(|w| attempt_alpha(solver, point, alpha_deg, settings, Some(w)));
+    let setup = InviscidSetup::new(solver, alpha_deg, settings)?;
+    let warm_result =
+        warm.map(|w| attempt_alpha(solver, &setup, point, alpha_deg, settings, Some(w)));
     if let Some(Ok(r)) = &warm_result {
         if r.status == PointStatus::Converged {
             return warm_result.expect("checked above");
         }
     }
-    let cold = attempt_alpha(solver, point, alpha_deg, settings, None);
+    let cold = attempt_alpha(solver, &setup, point, alpha_deg, settings, None);
     if matches!(&cold, Ok(c) if c.status == PointStatus::Converged) {
         return cold;
     }
-    if let Some(r) = reynolds_continuation(solver, point, alpha_deg, settings) {
+    if let Some(r) = reynolds_continuation(solver, &setup, point, alpha_deg, settings) {
         return Ok(r);
     }
     match (warm_result, cold) {
@@ -414,6 +416,7 @@ const CONTINUATION_REYNOLDS_FACTORS: [f64; 3] = [8.0, 4.0, 2.0];
 /// inviscid value, and Newton diverges from it; from the converged state at Re 1.2e6 it does not.
 fn reynolds_continuation(
     solver: &PanelSolver,
+    setup: &InviscidSetup,
     point: &OperatingPoint,
     alpha_deg: f64,
     settings: &ViscousSettings,
@@ -431,7 +434,8 @@ fn reynolds_continuation(
             w.state.mass_defect.iter_mut().for_each(|m| *m *= scale);
             w
         });
-        let result = attempt_alpha(solver, &step, alpha_deg, settings, warm.as_ref()).ok()?;
+        let result =
+            attempt_alpha(solver, setup, &step, alpha_deg, settings, warm.as_ref()).ok()?;
         if result.status != PointStatus::Converged {
             return None;
         }
@@ -492,23 +496,57 @@ impl WakeCurvature {
     }
 }
 
+/// The inviscid part of one alpha, shared by every attempt at it (it does not depend on the
+/// Reynolds number or the boundary-layer state).
+struct InviscidSetup {
+    inviscid: foilsweep_panel::InviscidSolution,
+    wake: foilsweep_panel::WakeLine,
+    wake_speed: Vec<f64>,
+    influence: foilsweep_panel::SourceInfluence,
+    curvature: Option<WakeCurvature>,
+}
+
+impl InviscidSetup {
+    fn new(
+        solver: &PanelSolver,
+        alpha_deg: f64,
+        settings: &ViscousSettings,
+    ) -> Result<Self, ViscousError> {
+        let alpha = alpha_deg.to_radians();
+        let inviscid = solver.solve(alpha);
+        let wake = solver
+            .try_wake_line(alpha, settings.wake_stations, settings.wake_length)
+            .map_err(|e| ViscousError::Setup(e.to_string()))?;
+        let wake_speed = solver.wake_speed(alpha, &wake);
+        let influence = solver.source_influence(&wake);
+        let curvature = settings
+            .wake_curvature
+            .then(|| WakeCurvature::new(solver, &wake));
+        Ok(Self {
+            inviscid,
+            wake,
+            wake_speed,
+            influence,
+            curvature,
+        })
+    }
+}
+
 fn attempt_alpha(
     solver: &PanelSolver,
+    setup: &InviscidSetup,
     point: &OperatingPoint,
     alpha_deg: f64,
     settings: &ViscousSettings,
     warm: Option<&WarmStart>,
 ) -> Result<PointResult, ViscousError> {
-    let alpha = alpha_deg.to_radians();
-    let inviscid = solver.solve(alpha);
-    let wake = solver
-        .try_wake_line(alpha, settings.wake_stations, settings.wake_length)
-        .map_err(|e| ViscousError::Setup(e.to_string()))?;
-    let wake_speed = solver.wake_speed(alpha, &wake);
-    let influence = solver.source_influence(&wake);
-    let curvature = settings
-        .wake_curvature
-        .then(|| WakeCurvature::new(solver, &wake));
+    let InviscidSetup {
+        inviscid,
+        wake,
+        wake_speed,
+        influence,
+        curvature,
+    } = setup;
     // With a warm start the stagnation point is placed where the neighbour's displacement
     // effect puts it at this alpha (viscous γ estimate), so the mapped state fits the layout.
     let gamma_start = match warm {
@@ -523,8 +561,8 @@ fn attempt_alpha(
         }
         None => inviscid.gamma.clone(),
     };
-    let mut topo = Topology::new(solver, &gamma_start, &wake, point)
-        .or_else(|_| Topology::new(solver, &inviscid.gamma, &wake, point))
+    let mut topo = Topology::new(solver, &gamma_start, wake, point)
+        .or_else(|_| Topology::new(solver, &inviscid.gamma, wake, point))
         .map_err(ViscousError::Setup)?;
     let ib_settings = InteractionSettings {
         equations: EquationSettings {
@@ -540,7 +578,7 @@ fn attempt_alpha(
     let mut relocations = 0;
     loop {
         let d = topo.mass_defect_influence(&influence.matrix);
-        let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, &wake_speed);
+        let ue_inv = topo.inviscid_edge_velocity(&inviscid.gamma, wake_speed);
         let c = curvature
             .as_ref()
             .map(|c| topo.defect_influence(&c.influence, &c.curvature));
@@ -569,7 +607,7 @@ fn attempt_alpha(
         };
         let converged = solution.convergence.termination == Termination::Converged;
         let moved = if converged {
-            topo.relocated(&gamma, &wake, point)
+            topo.relocated(&gamma, wake, point)
                 .map_err(ViscousError::Setup)?
         } else {
             None
@@ -597,7 +635,7 @@ fn attempt_alpha(
             PointStatus::NotConverged
         };
         let mut result = topology::post_process(
-            &topo, &inviscid, alpha_deg, point, &gamma, solution, status, iterations,
+            &topo, inviscid, alpha_deg, point, &gamma, solution, status, iterations,
         );
         result.warm_start.wake_sheet = sheet;
         return Ok(result);
