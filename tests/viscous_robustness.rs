@@ -7,7 +7,9 @@
 //! Eppler 387 at the four UIUC Reynolds numbers (Selig & McGranahan 2004, NREL/SR-500-34515) and
 //! the NACA 0012 at Re 6e6, Mach 0.15, tripped at 5 % chord (Ladson 1988, NASA TM-4074).
 //! The same level is required of 0.25° steps on the Eppler 387 at Re 2e5 and 1e6, together
-//! with a smooth drag curve (no point on a spurious branch).
+//! with a smooth drag curve (no point on a spurious branch). Beyond the published sections,
+//! NACA sections with their blunt trailing edge and trips near the leading edge must converge at
+//! low Reynolds number (a turbulator study; no data compared).
 
 use foilsweep_driver::{run_polar, PolarRequest, Targets};
 use foilsweep_geometry::naca::{naca_section, TrailingEdge};
