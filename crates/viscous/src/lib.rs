@@ -178,9 +178,12 @@ pub enum Implausibility {
     /// point on the attachment side (a separated first interval that then trips transition
     /// there) and are a second, spurious solution of the discrete equations.
     SeparationInFavourableGradient(Surface),
-    /// The momentum thickness falls to less than half its laminar value across the transition
-    /// interval and the turbulent layer behind stays separated for more than a tenth of the
-    /// chord. θ carries the momentum deficit, which only a strong acceleration can shrink (by
+    /// The momentum thickness falls to less than half of an upstream laminar value across the
+    /// transition interval, or inside the laminar separated run that ends at transition, and the
+    /// turbulent layer behind stays separated for more than a tenth of the chord (the second
+    /// form: E387 at Re 1e6, −3.5°, and 7e5, −4°, lower surface, θ halving at H 26–82 in a
+    /// leading-edge bubble, turbulent separation to 0.12 c, cd 0.0142 and 0.0226 next to 0.0091
+    /// and 0.0111 half a degree away). θ carries the momentum deficit, which only a strong acceleration can shrink (by
     /// the momentum integral, halving θ over one interval takes an edge-speed rise of about
     /// 2^(1/(H+2)) − 1, over 15 % for an attached layer). Such states pair the fall with H of
     /// 70–80 at the transition station and a long turbulent separated region, a spurious

@@ -537,22 +537,39 @@ const MOMENTUM_COLLAPSE_RATIO: f64 = 0.5;
 /// dips and the 0.3 c of the spurious root).
 const COLLAPSE_SEPARATED_RUN: f64 = 0.1;
 
-/// The first surface whose first turbulent station has less than half the momentum thickness of
-/// the station before it and is followed by turbulent separated flow over more than
-/// [`COLLAPSE_SEPARATED_RUN`]; `stations` per surface (then the wake), as the interaction
-/// returns them.
+/// The first surface on which the momentum thickness falls to less than half of an upstream
+/// value between the start of the laminar run before transition (the last attached laminar
+/// station, or the start of the laminar separated run that ends at transition) and the first
+/// turbulent station, and the first turbulent station is followed by turbulent separated flow
+/// over more than [`COLLAPSE_SEPARATED_RUN`]; `stations` per surface (then the wake), as the
+/// interaction returns them.
 pub(crate) fn momentum_collapse_at_transition(stations: &[Vec<StationState>]) -> Option<Surface> {
     let laminar = |r: Regime| matches!(r, Regime::Laminar | Regime::LaminarSeparated);
     [Surface::Upper, Surface::Lower]
         .into_iter()
         .zip(stations)
         .find_map(|(surface, stations)| {
-            let first = (1..stations.len()).find(|&i| {
-                laminar(stations[i - 1].regime)
-                    && !laminar(stations[i].regime)
-                    && stations[i].momentum_thickness
-                        < MOMENTUM_COLLAPSE_RATIO * stations[i - 1].momentum_thickness
-            })?;
+            let first = (1..stations.len())
+                .find(|&i| laminar(stations[i - 1].regime) && !laminar(stations[i].regime))?;
+            // The laminar run before transition: back to the last attached station before a
+            // laminar separated run that ends at transition, else just the last laminar one.
+            let run_start = if stations[first - 1].regime == Regime::LaminarSeparated {
+                (0..first - 1)
+                    .rev()
+                    .find(|&i| stations[i].regime != Regime::LaminarSeparated)
+                    .unwrap_or(0)
+            } else {
+                first - 1
+            };
+            let mut peak: f64 = 0.0;
+            let collapsed = stations[run_start..=first].iter().any(|st| {
+                let fell = st.momentum_thickness < MOMENTUM_COLLAPSE_RATIO * peak;
+                peak = peak.max(st.momentum_thickness);
+                fell
+            });
+            if !collapsed {
+                return None;
+            }
             let last_separated = stations[first..]
                 .iter()
                 .take_while(|st| st.regime == Regime::TurbulentSeparated)
@@ -707,6 +724,22 @@ mod tests {
             station(0.599, 4.6e-4, TurbulentSeparated),
             station(0.614, 6.1e-4, Turbulent),
         ];
+        // The fall inside the laminar separated run before transition (E387, Re 1e6, −3.5°,
+        // lower surface: θ 4.1e-5 → 2.0e-5 at H 26–82, then turbulent separated over 0.1 c).
+        let mut falling = vec![
+            station(0.0005, 2.2e-5, Laminar),
+            station(0.0022, 4.1e-5, LaminarSeparated),
+            station(0.0050, 3.2e-5, LaminarSeparated),
+            station(0.0086, 2.0e-5, LaminarSeparated),
+        ];
+        falling.extend((0..10).map(|k| {
+            station(
+                0.0127 + 0.0115 * f64::from(k),
+                4.6e-5 * (1.0 + f64::from(k)),
+                TurbulentSeparated,
+            )
+        }));
+        falling.push(station(0.127, 2.2e-3, Turbulent));
         // A strong fall between two turbulent stations is not the transition root.
         let turbulent = vec![
             station(0.6, 4.0e-4, Turbulent),
@@ -720,6 +753,7 @@ mod tests {
         assert_eq!(check(&smooth, &collapsed), Some(Surface::Lower));
         assert_eq!(check(&collapsed, &smooth), Some(Surface::Upper));
         assert_eq!(check(&dip, &dip), None);
+        assert_eq!(check(&smooth, &falling), Some(Surface::Lower));
         assert_eq!(check(&turbulent, &turbulent), None);
     }
 }
