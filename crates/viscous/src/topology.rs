@@ -706,14 +706,18 @@ mod tests {
         ];
         // The spurious root: θ drops to a sixth at the first turbulent station and the layer
         // stays separated for 0.3 chord (E387, Re 2e5, 4.09°).
+        // `count` turbulent separated stations from arc length `s0` in steps `ds`, θ growing
+        // linearly from `theta0`.
+        let separated_run = |s0: f64, ds: f64, theta0: f64, count: u32| -> Vec<StationState> {
+            (0..count)
+                .map(|k| {
+                    let k = f64::from(k);
+                    station(s0 + ds * k, theta0 * (1.0 + k), TurbulentSeparated)
+                })
+                .collect()
+        };
         let mut collapsed = vec![station(0.467, 9.0e-4, LaminarSeparated)];
-        collapsed.extend((0..25).map(|k| {
-            station(
-                0.479 + 0.0125 * f64::from(k),
-                1.5e-4 * (1.0 + f64::from(k)),
-                TurbulentSeparated,
-            )
-        }));
+        collapsed.extend(separated_run(0.479, 0.0125, 1.5e-4, 25));
         collapsed.push(station(0.79, 4.1e-3, Turbulent));
         // A one-station dip in a short bubble: separated flow for 0.04 chord behind it
         // (E387, Re 1e6, 0°), accepted.
@@ -732,13 +736,7 @@ mod tests {
             station(0.0050, 3.2e-5, LaminarSeparated),
             station(0.0086, 2.0e-5, LaminarSeparated),
         ];
-        falling.extend((0..10).map(|k| {
-            station(
-                0.0127 + 0.0115 * f64::from(k),
-                4.6e-5 * (1.0 + f64::from(k)),
-                TurbulentSeparated,
-            )
-        }));
+        falling.extend(separated_run(0.0127, 0.0115, 4.6e-5, 10));
         falling.push(station(0.127, 2.2e-3, Turbulent));
         // A strong fall between two turbulent stations is not the transition root.
         let turbulent = vec![
