@@ -24,7 +24,7 @@
 
 use nalgebra::{DMatrix, DVector};
 
-use crate::closure::{lag_entrainment, laminar};
+use crate::closure::{lag_entrainment, laminar_table};
 use crate::dense::BorderedSystem;
 use crate::equations::{self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT};
 use crate::state::{Event, EventKind, Regime, StationState, TransitionKind};
@@ -1201,7 +1201,11 @@ fn update_transition(
             n_prev = if was_laminar {
                 state.third[g]
             } else {
-                let r = equations::laminar_interval(&p1, &pt(g, n_prev), eq);
+                let p2 = Point {
+                    arc_length: ctx.arc_length[g],
+                    ..pt(rate_source, n_prev)
+                };
+                let r = equations::laminar_interval(&p1, &p2, eq);
                 n_prev - r[2]
             };
             n_values.push(n_prev);
@@ -1609,7 +1613,7 @@ fn finish(
             let h = p.shape_factor();
             let laminar_station = first_turb.is_none_or(|t| i < t);
             let cf = if laminar_station {
-                laminar::skin_friction(h, p.re_theta(re))
+                laminar_table::skin_friction(h, p.re_theta(re))
             } else {
                 lag_entrainment::skin_friction(h, p.re_theta(re))
             };
