@@ -14,8 +14,9 @@
 //! * laminar: kinetic-energy integral in shape-factor form (e.g. White 2006, eq. 4-…;
 //!   Drela & Giles 1987 for its use through reversed flow)
 //!   `ln(H*2/H*1) + (1 − H̄) ln(ue2/ue1) − Δs·avg((2 C_D/H* − cf/2)/θ) = 0`, with the
-//!   two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ) of our own Falkner–Skan
-//!   table ([`crate::closure::laminar_table`]);
+//!   two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ) of
+//!   [`crate::closure::laminar_blend`] (our Falkner–Skan table when attached, the published
+//!   fit when separated);
 //!   amplification `N2 − N1 − Δs·avg(dN/ds) = 0` (envelope e^N, Drela & Giles 1987) with the
 //!   trapezoidal average. On the E387 at 7.15°, Re 3e5, 160 panels, the upstream rate alone
 //!   put N at x/c 0.2 0.56 ahead of a fine (Δs = 1e-6) integration of the same equations on
@@ -34,7 +35,7 @@
 //! What this module does not do: choose which intervals are laminar or turbulent, locate the
 //! stagnation point, or solve anything (see [`crate::interaction`]).
 
-use crate::closure::{lag_entrainment, laminar_table, transition};
+use crate::closure::{lag_entrainment, laminar_blend, transition};
 
 /// Shape factor below which the closures are not evaluated (profiles thinner than this do not
 /// exist in attached or separated flow; guards the Newton iterates only).
@@ -131,9 +132,9 @@ struct LaminarLocal {
 fn laminar_local(p: &Point, settings: &EquationSettings) -> LaminarLocal {
     let h = p.shape_factor();
     let re_theta = p.re_theta(settings.reynolds);
-    let cf = laminar_table::skin_friction(h, re_theta);
-    let cd = laminar_table::dissipation(h, re_theta);
-    let h_star = laminar_table::energy_shape_factor(h);
+    let cf = laminar_blend::skin_friction(h, re_theta);
+    let cd = laminar_blend::dissipation(h, re_theta);
+    let h_star = laminar_blend::energy_shape_factor(h);
     LaminarLocal {
         h,
         h_star,

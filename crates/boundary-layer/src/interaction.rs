@@ -24,7 +24,7 @@
 
 use nalgebra::{DMatrix, DVector};
 
-use crate::closure::{lag_entrainment, laminar_table};
+use crate::closure::{lag_entrainment, laminar_blend};
 use crate::dense::BorderedSystem;
 use crate::equations::{self, EquationSettings, Point, SurfaceStart, MIN_ENTRAINMENT};
 use crate::state::{Event, EventKind, Regime, StationState, TransitionKind};
@@ -1613,7 +1613,7 @@ fn finish(
             let h = p.shape_factor();
             let laminar_station = first_turb.is_none_or(|t| i < t);
             let cf = if laminar_station {
-                laminar_table::skin_friction(h, p.re_theta(re))
+                laminar_blend::skin_friction(h, p.re_theta(re))
             } else {
                 lag_entrainment::skin_friction(h, p.re_theta(re))
             };

@@ -17,7 +17,7 @@
 //! - [`thwaites`]: Thwaites's integral march (θ from the stagnation point) used by `direct`.
 //! - [`falkner_skan`]: our own Falkner–Skan solver (attached and reversed branches), the source
 //!   of the table-based laminar closure `closure::laminar_table`, which the interacting
-//!   equations use.
+//!   equations use on the attached branch (`closure::laminar_blend`).
 //! - [`equations`] and [`interaction`]: discrete residuals of the interacting equations and the
 //!   Newton solver with an interaction matrix (the coupled, "full" mode).
 //! - `dense` (private): the blocked LU that solves the dense Newton system of the coupling.

@@ -1,8 +1,8 @@
 //! Laminar two-equation closure built from our own Falkner-Skan solutions: energy shape factor
 //! H*(H), skin friction cf(H, Re_θ) and dissipation coefficient C_D(H, Re_θ), valid through
 //! reversed flow. Same functions and meaning as the published fit in [`super::laminar`]
-//! (Drela & Giles 1987), which this module uses only outside its table. This is the laminar
-//! closure of the interacting equations ([`crate::equations`]).
+//! (Drela & Giles 1987), which this module uses only outside its table. The interacting
+//! equations use it on the attached branch ([`super::laminar_blend`]).
 //!
 //! **Table.** [`crate::falkner_skan::family`] with [`TABLE_SIZE`] members: the Falkner-Skan
 //! attached branch from β = 2 (H = 2.155) down to separation (β = −0.19884, H = 4.029, Hartree

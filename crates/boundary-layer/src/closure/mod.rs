@@ -23,6 +23,7 @@
 pub mod head;
 pub mod lag_entrainment;
 pub mod laminar;
+pub mod laminar_blend;
 pub mod laminar_table;
 pub mod thwaites;
 pub mod transition;
