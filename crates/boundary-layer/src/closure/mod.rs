@@ -5,7 +5,9 @@
 //! | module | method | used by |
 //! |---|---|---|
 //! | [`thwaites`] | Thwaites (1949) one-parameter laminar closure l(λ), H(λ) (Cebeci & Bradshaw 1977 fits) | direct march, attached laminar |
-//! | [`laminar`] | two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ) (Drela & Giles 1987), valid in reversed flow | interacting solver |
+//! | [`laminar`] | two-equation laminar closure H*(H), cf(H, Re_θ), C_D(H, Re_θ) (Drela & Giles 1987), valid in reversed flow | interacting solver, separated flow (via `laminar_blend`) |
+//! | [`laminar_table`] | the same functions from our own Falkner–Skan solutions (both branches) | interacting solver, attached flow (via `laminar_blend`) |
+//! | [`laminar_blend`] | the table when attached, the fit when separated, C¹ over 4 ≤ H ≤ 5 | interacting solver |
 //! | [`head`] | Head (1958) entrainment closure H1(H), F(H1) and Ludwieg & Tillmann (1949) cf | direct march (option) |
 //! | [`lag_entrainment`] | Green, Weeks & Brooman (1973) lag-entrainment closure, incompressible, boundary layer and wake | direct march (default), wake, interacting solver |
 //! | [`transition`] | Drela & Giles (1987) e^N envelope, Mack (1977) N_crit(Tu) | all marches |
