@@ -182,8 +182,9 @@ fn e387_pitching_moment_against_tm4062() {
 /// of McGhee, Walker & Millard (1988), NASA TM-4062, Table III, Re 2e5. Target 0.05 c (issue;
 /// oil-flow lines are read by eye to ±0.02–0.03 c, common practice, no source).
 ///
-/// Checked from −2° to 6°. At 7° the model predicts natural transition at x/c ≈ 0.28, ahead of
-/// the observed separation at 0.33, so it shows no bubble there; that miss is recorded in the
+/// Checked from −2° to 6°. At 7° the model predicts natural transition at x/c ≈ 0.35 without a
+/// laminar separation before it (observed: separation 0.33, reattachment 0.48), so it shows no
+/// bubble there; that miss is recorded in the
 /// issue notes rather than hidden in a wider tolerance.
 #[test]
 fn e387_bubble_positions_against_oil_flow() {
@@ -226,7 +227,8 @@ fn e387_bubble_positions_against_oil_flow() {
 ///
 /// - cd within 5 % for |alpha| ≤ 8.3° (issue target; the data repeat to about 2 %).
 /// - lift slope (least squares over the same points): the target is 3 %; the model's slope is
-///   3.7 % steeper than the measured one (4.7 % without the wake-curvature term), so this check
+///   3.7 % steeper than the measured one (4.7 % without the wake-curvature term, measured with an
+///   earlier laminar closure), so this check
 ///   guards 5 % and the figure is recorded in the issue notes.
 #[test]
 fn naca0012_tripped_against_ladson() {
