@@ -106,11 +106,7 @@ mod tests {
         ];
         for f in fs {
             for x in [4.0, 7.4] {
-                let d = 1e-6;
-                let left = (f(x) - f(x - d)) / d;
-                let right = (f(x + d) - f(x)) / d;
-                assert_relative_eq!(f(x - 1e-12), f(x + 1e-12), epsilon = 1e-9);
-                assert_relative_eq!(left, right, epsilon = 1e-5);
+                crate::closure::assert_c1_at(f, x, 1e-5);
             }
         }
     }

@@ -13,7 +13,7 @@
 //! closed (the coupled solve failed from −2° up, where the fit converges). The fit, tuned for
 //! bubbles, is kept there.
 
-use super::{laminar, laminar_table};
+use super::{laminar, laminar_table, smoothstep};
 
 /// Shape factor where the blend from the table to the fit begins (Falkner–Skan separation is at
 /// H = 4.029; the blend starts just below it so cf changes sign inside the table part).
@@ -23,8 +23,7 @@ pub const BLEND_END: f64 = 5.0;
 
 /// Weight of the fit: 0 up to [`BLEND_START`], 1 from [`BLEND_END`], C¹ in between.
 fn fit_weight(h: f64) -> f64 {
-    let t = ((h - BLEND_START) / (BLEND_END - BLEND_START)).clamp(0.0, 1.0);
-    t * t * (3.0 - 2.0 * t)
+    smoothstep((h - BLEND_START) / (BLEND_END - BLEND_START))
 }
 
 fn blend(h: f64, table: f64, fit: f64) -> f64 {
@@ -62,7 +61,6 @@ pub fn dissipation(h: f64, re_theta: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use approx::assert_relative_eq;
 
     #[test]
     fn table_below_the_band_fit_above_it() {
@@ -95,10 +93,7 @@ mod tests {
         ];
         for f in fs {
             for x in [BLEND_START, 4.5, BLEND_END] {
-                let d = 1e-6;
-                let left = (f(x) - f(x - d)) / d;
-                let right = (f(x + d) - f(x)) / d;
-                assert_relative_eq!(left, right, epsilon = 1e-4);
+                crate::closure::assert_c1_at(f, x, 1e-4);
             }
         }
     }

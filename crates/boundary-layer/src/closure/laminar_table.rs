@@ -30,7 +30,7 @@
 //! tabulated. At H = 30 the fit differs from the table by 0.19 in H*, 0.024 in Re_θ cf/2 and
 //! 0.020 in 2 Re_θ C_D/H*, so the upper blend band is wide to keep the slopes moderate.
 
-use super::laminar;
+use super::{laminar, smoothstep};
 
 /// Number of Falkner-Skan family members in the table.
 pub const TABLE_SIZE: usize = 128;
@@ -219,12 +219,6 @@ fn fit_re_theta_cf_half(h: f64) -> f64 {
 /// 2 Re_θ C_D/H* of the published fit (exact: its C_D scales as 1/Re_θ).
 fn fit_dissipation_group(h: f64) -> f64 {
     2.0 * laminar::dissipation(h, 1.0) / laminar::energy_shape_factor(h)
-}
-
-/// C¹ blend weight: 0 at t ≤ 0, 1 at t ≥ 1, zero slope at both ends.
-fn smoothstep(t: f64) -> f64 {
-    let t = t.clamp(0.0, 1.0);
-    t * t * (3.0 - 2.0 * t)
 }
 
 /// Table column `column` at `h`, blended into `fit` outside the table.

@@ -45,6 +45,24 @@ pub(crate) fn smooth_floor(x: f64, floor: f64, width: f64) -> f64 {
 /// Smallest shape factor the laminar and turbulent fits are evaluated at: arguments below
 /// `SHAPE_FACTOR_FLOOR + SHAPE_FACTOR_GUARD_WIDTH` are passed through [`smooth_floor`].
 /// H = 1 is the physical lower limit (a plug profile); the fits have poles there.
+/// C¹ blend weight 3t² − 2t³ of `t` clamped to [0, 1]: 0 at t ≤ 0, 1 at t ≥ 1, zero slope at
+/// both ends (the joins between fits and tables use it).
+pub(crate) fn smoothstep(t: f64) -> f64 {
+    let t = t.clamp(0.0, 1.0);
+    t * t * (3.0 - 2.0 * t)
+}
+
+/// Test helper: `f` is continuous at `x` and its one-sided slopes there (finite differences,
+/// step 1e-6) agree within `slope_tolerance`.
+#[cfg(test)]
+pub(crate) fn assert_c1_at(f: impl Fn(f64) -> f64, x: f64, slope_tolerance: f64) {
+    let d = 1e-6;
+    approx::assert_relative_eq!(f(x - 1e-12), f(x + 1e-12), epsilon = 1e-9);
+    let left = (f(x) - f(x - d)) / d;
+    let right = (f(x + d) - f(x)) / d;
+    approx::assert_relative_eq!(left, right, epsilon = slope_tolerance);
+}
+
 pub(crate) const SHAPE_FACTOR_FLOOR: f64 = 1.05;
 /// Width of the C¹ guard above [`SHAPE_FACTOR_FLOOR`].
 pub(crate) const SHAPE_FACTOR_GUARD_WIDTH: f64 = 0.05;

@@ -30,6 +30,8 @@
 //! hold their λ = −0.1 values there (l = −0.177, H = 3.92) so that they stay finite. Callers must
 //! detect separation from λ, not from the returned values.
 
+use super::smoothstep;
+
 /// Laminar separation value of λ (Curle & Skan 1957 revision as used by White, *Viscous Fluid
 /// Flow*; Thwaites's original value was −0.082). METHODS §2.4.
 pub const SEPARATION_LAMBDA: f64 = -0.09;
@@ -44,8 +46,7 @@ const WHITE_MAX: f64 = 0.25;
 
 /// C¹ blend weight of White's fit: 0 below `BLEND_START`, 1 above `BLEND_END`.
 fn white_weight(lambda: f64) -> f64 {
-    let t = ((lambda - BLEND_START) / (BLEND_END - BLEND_START)).clamp(0.0, 1.0);
-    t * t * (3.0 - 2.0 * t)
+    smoothstep((lambda - BLEND_START) / (BLEND_END - BLEND_START))
 }
 
 /// Cebeci & Bradshaw (1977) l(λ), both branches (METHODS §2.3).

@@ -23,7 +23,7 @@
 //! **Mack (1977)**, AGARD CP-224 / JPL Publ. 77-15 (which of the two carries it: not confirmed):
 //! N_crit = −8.43 − 2.4 ln Tu, Tu as a fraction.
 
-use super::{guarded_shape_factor, smooth_floor};
+use super::{guarded_shape_factor, smooth_floor, smoothstep};
 use crate::error::BoundaryLayerError;
 
 /// Half-width of the onset ramp in decades of Re_θ.
@@ -73,10 +73,10 @@ pub fn amplification_rate(h: f64, theta: f64, re_theta: f64) -> f64 {
     if !(re_theta > 0.0 && theta > 0.0) {
         return 0.0;
     }
-    let t = ((re_theta.log10() - log10_critical_re_theta(h) + RAMP_HALF_WIDTH_DECADES)
-        / (2.0 * RAMP_HALF_WIDTH_DECADES))
-        .clamp(0.0, 1.0);
-    let ramp = t * t * (3.0 - 2.0 * t);
+    let ramp = smoothstep(
+        (re_theta.log10() - log10_critical_re_theta(h) + RAMP_HALF_WIDTH_DECADES)
+            / (2.0 * RAMP_HALF_WIDTH_DECADES),
+    );
     if ramp == 0.0 {
         return 0.0;
     }
