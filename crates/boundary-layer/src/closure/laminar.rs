@@ -99,16 +99,13 @@ mod tests {
     fn c1_at_branch_joins() {
         // Value and slope continuous at H = 4 and H = 7.4 (they feed a Newton solver).
         // Centred vs one-sided differences with step 1e-6: tolerance covers FD truncation.
-        let fs: [fn(f64) -> f64; 3] = [
+        crate::closure::assert_laminar_closure_c1(
             energy_shape_factor,
-            |h| skin_friction(h, 500.0),
-            |h| dissipation(h, 500.0),
-        ];
-        for f in fs {
-            for x in [4.0, 7.4] {
-                crate::closure::assert_c1_at(f, x, 1e-5);
-            }
-        }
+            skin_friction,
+            dissipation,
+            &[4.0, 7.4],
+            1e-5,
+        );
     }
 
     #[test]

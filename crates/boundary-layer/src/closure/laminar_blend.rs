@@ -86,15 +86,12 @@ mod tests {
     fn c1_across_the_band() {
         // One-sided slopes agree at the band ends and inside it (finite differences, step 1e-6:
         // the tolerance covers the truncation error).
-        let fs: [fn(f64) -> f64; 3] = [
+        crate::closure::assert_laminar_closure_c1(
             energy_shape_factor,
-            |h| skin_friction(h, 500.0),
-            |h| dissipation(h, 500.0),
-        ];
-        for f in fs {
-            for x in [BLEND_START, 4.5, BLEND_END] {
-                crate::closure::assert_c1_at(f, x, 1e-4);
-            }
-        }
+            skin_friction,
+            dissipation,
+            &[BLEND_START, 4.5, BLEND_END],
+            1e-4,
+        );
     }
 }

@@ -52,15 +52,29 @@ pub(crate) fn smoothstep(t: f64) -> f64 {
     t * t * (3.0 - 2.0 * t)
 }
 
-/// Test helper: `f` is continuous at `x` and its one-sided slopes there (finite differences,
-/// step 1e-6) agree within `slope_tolerance`.
+/// Test helper for a two-equation laminar closure (H*(H), cf(H, Re_θ), C_D(H, Re_θ)): each of
+/// the three is continuous at every shape factor of `joins` (at Re_θ = 500) and its one-sided
+/// slopes there (finite differences, step 1e-6) agree within `slope_tolerance`.
 #[cfg(test)]
-pub(crate) fn assert_c1_at(f: impl Fn(f64) -> f64, x: f64, slope_tolerance: f64) {
+pub(crate) fn assert_laminar_closure_c1(
+    energy_shape_factor: fn(f64) -> f64,
+    skin_friction: fn(f64, f64) -> f64,
+    dissipation: fn(f64, f64) -> f64,
+    joins: &[f64],
+    slope_tolerance: f64,
+) {
+    let fs: [&dyn Fn(f64) -> f64; 3] = [&energy_shape_factor, &|h| skin_friction(h, 500.0), &|h| {
+        dissipation(h, 500.0)
+    }];
     let d = 1e-6;
-    approx::assert_relative_eq!(f(x - 1e-12), f(x + 1e-12), epsilon = 1e-9);
-    let left = (f(x) - f(x - d)) / d;
-    let right = (f(x + d) - f(x)) / d;
-    approx::assert_relative_eq!(left, right, epsilon = slope_tolerance);
+    for f in fs {
+        for &x in joins {
+            approx::assert_relative_eq!(f(x - 1e-12), f(x + 1e-12), epsilon = 1e-9);
+            let left = (f(x) - f(x - d)) / d;
+            let right = (f(x + d) - f(x)) / d;
+            approx::assert_relative_eq!(left, right, epsilon = slope_tolerance);
+        }
+    }
 }
 
 pub(crate) const SHAPE_FACTOR_FLOOR: f64 = 1.05;
