@@ -19,7 +19,7 @@
 //!   fit when separated);
 //!   amplification `N2 − N1 − Δs·avg(dN/ds) = 0` (envelope e^N, Drela & Giles 1987) with the
 //!   trapezoidal average. On the E387 at 7.15°, Re 3e5, 160 panels, the upstream rate alone
-//!   put N at x/c 0.2 0.56 ahead of a fine (Δs = 1e-6) integration of the same equations on
+//!   put N at arc length 0.2 (x/c 0.17) 0.56 ahead of a fine (Δs = 1e-6) integration of the same equations on
 //!   the same edge speed, the trapezoidal average 0.44 ahead; most of what is left arises at
 //!   the first amplifying stations behind the suction peak, where the stations are coarse;
 //! * turbulent and wake: Head's (1958) entrainment equation with the lag-entrainment

@@ -6,12 +6,13 @@
 //! Why two sources. On the attached branch the table is exact for similar flows, and against a
 //! finite-difference solution of the laminar boundary-layer equations (E387, 7.15°, Re 3e5, on
 //! the coupled solution's edge speed) it carries the amplification factor much closer than the
-//! fit (N at x/c 0.2: fit 0.5 above the table, table 0.3 above the finite-difference solution).
+//! fit (N at arc length 0.2 from the stagnation point, x/c 0.17: fit 0.5 above the table, table
+//! 0.3 above the finite-difference solution; `tests/bl_finite_difference.rs`).
 //! In separated flow the table follows Stewartson's (1954) lower-branch similarity profiles,
 //! whose H* rises faster with H than the fit's; with it the shape factor of a separated shear
 //! layer grows more slowly, bubbles lengthen, and at Re 6e4 the NACA 4412 bubble no longer
-//! closed (the coupled solve failed from −2° up, where the fit converges). The fit, tuned for
-//! bubbles, is kept there.
+//! closed (the coupled solve failed from −2° up, where the fit converges; guarded by
+//! `long_bubbles_at_the_bottom_of_the_reynolds_range_converge`). The fit is kept there.
 
 use super::{laminar, laminar_table, smoothstep};
 

@@ -42,9 +42,6 @@ pub(crate) fn smooth_floor(x: f64, floor: f64, width: f64) -> f64 {
     }
 }
 
-/// Smallest shape factor the laminar and turbulent fits are evaluated at: arguments below
-/// `SHAPE_FACTOR_FLOOR + SHAPE_FACTOR_GUARD_WIDTH` are passed through [`smooth_floor`].
-/// H = 1 is the physical lower limit (a plug profile); the fits have poles there.
 /// C¹ blend weight 3t² − 2t³ of `t` clamped to [0, 1]: 0 at t ≤ 0, 1 at t ≥ 1, zero slope at
 /// both ends (the joins between fits and tables use it).
 pub(crate) fn smoothstep(t: f64) -> f64 {
@@ -77,6 +74,9 @@ pub(crate) fn assert_laminar_closure_c1(
     }
 }
 
+/// Smallest shape factor the laminar and turbulent fits are evaluated at: arguments below
+/// `SHAPE_FACTOR_FLOOR + SHAPE_FACTOR_GUARD_WIDTH` are passed through [`smooth_floor`].
+/// H = 1 is the physical lower limit (a plug profile); the fits have poles there.
 pub(crate) const SHAPE_FACTOR_FLOOR: f64 = 1.05;
 /// Width of the C¹ guard above [`SHAPE_FACTOR_FLOOR`].
 pub(crate) const SHAPE_FACTOR_GUARD_WIDTH: f64 = 0.05;
