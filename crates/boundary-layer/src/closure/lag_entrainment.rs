@@ -45,8 +45,9 @@
 //! H = 1); Re_θ floored C¹ at 50 in cf0 (pole at Re_θ = 10.5; a turbulent layer below Re_θ ≈ 100
 //! is outside every turbulent correlation); C_E floored C¹ at 1e-5 in F and Cτ (pole of F at
 //! C_E = −0.01; entrainment is positive). With these all functions are finite for any finite
-//! input, and in particular over 1.1 < H < 20, where H1 stays decreasing (it turns negative near
-//! H ≈ 18.8, which the entrainment equation tolerates since only dH1/dH < 0 is needed).
+//! input, and in particular over 1.1 < H < 20. Green's H1 would turn negative near H ≈ 18.8;
+//! above H = 8 it is continued so that it stays positive and decreasing
+//! ([`ENTRAINMENT_CONTINUATION_SHAPE_FACTOR`]).
 
 use super::{guarded_shape_factor, smooth_floor};
 
@@ -66,7 +67,7 @@ const DISSIPATION_LENGTH_FACTOR: f64 = 1.0;
 /// is evaluated; beyond it the target stays at its value there (smooth ceiling of width
 /// [`EQUILIBRIUM_CEILING_WIDTH`]). Our choice, no source: the closure is calibrated for
 /// attached and mildly separated layers, and extrapolated past H ≈ 6 its C_E,EQ falls (0.080
-/// at H = 6, 0.037 at H = 15, Re_θ = 1000), so the more a turbulent shear layer is separated
+/// at H = 6, 0.063 at H = 15, Re_θ = 1000), so the more a turbulent shear layer is separated
 /// the less it would entrain and the less able it would be to reattach. Reattaching shear
 /// layers behind transition in a laminar bubble (H ≈ 5–20) entrain strongly, as a free mixing
 /// layer does. The same value bounds the starting entrainment at transition
@@ -77,17 +78,54 @@ pub const EQUILIBRIUM_SHAPE_FACTOR_CEILING: f64 = 6.0;
 /// Width of the smooth ceiling on the equilibrium shape factor.
 const EQUILIBRIUM_CEILING_WIDTH: f64 = 0.5;
 
-/// Green's entrainment shape factor H1 = (δ − δ*)/θ = 3.15 + 1.72/(H − 1) − 0.01(H − 1)² at shape
-/// factor `h` (GWB 1973, from memory). Strictly decreasing in H; H guarded at 1.05.
+/// Shape factor above which Green's H1(H) is continued by [`entrainment_shape_factor`] instead of
+/// its quadratic (our choice, no source): H1 = (δ − δ*)/θ is positive by definition, but the
+/// quadratic term −0.01(H − 1)² turns it negative at H ≈ 18.8. Before the continuation, the
+/// coupled NACA 0018 at Re 1e5, 0°, found a spurious root with negative H1: across transition in
+/// a long laminar bubble θ fell by 60 % while H jumped from 10.9 to 28.6 (flagged as a momentum
+/// collapse). The join lies above the shape factors that reattaching E387 bubbles reach after
+/// transition at Re 2e5–5e5 (H ≤ 7.6), so they are unaffected.
+pub const ENTRAINMENT_CONTINUATION_SHAPE_FACTOR: f64 = 8.0;
+/// Value that the continued H1 approaches as H → ∞ (our choice, no source: below Green's 2.91 at
+/// the join, so H1 stays strictly decreasing, which the entrainment equation needs to fix H).
+const ENTRAINMENT_SHAPE_FACTOR_LIMIT: f64 = 2.0;
+
+/// Green's quadratic H1 = 3.15 + 1.72/(H − 1) − 0.01(H − 1)² and its slope (GWB 1973, from
+/// memory), without guards.
+fn green_entrainment_shape_factor(h: f64) -> (f64, f64) {
+    let hm1 = h - 1.0;
+    (
+        3.15 + 1.72 / hm1 - 0.01 * hm1 * hm1,
+        -1.72 / (hm1 * hm1) - 0.02 * hm1,
+    )
+}
+
+/// H1 and dH1/dH on the guarded shape factor: Green's relation up to
+/// [`ENTRAINMENT_CONTINUATION_SHAPE_FACTOR`], then the C¹ exponential continuation
+/// H1 = H1_j − (H1_j − H1_∞)(1 − e^{−(H − H_j)/L}) with L = (H1_j − H1_∞)/|dH1/dH|_j.
+fn entrainment_shape_factor_and_slope(h: f64) -> (f64, f64) {
+    let h = guarded_shape_factor(h);
+    let hj = ENTRAINMENT_CONTINUATION_SHAPE_FACTOR;
+    if h <= hj {
+        return green_entrainment_shape_factor(h);
+    }
+    let (value, slope) = green_entrainment_shape_factor(hj);
+    let drop = value - ENTRAINMENT_SHAPE_FACTOR_LIMIT;
+    let decay = (-(h - hj) * slope.abs() / drop).exp();
+    (ENTRAINMENT_SHAPE_FACTOR_LIMIT + drop * decay, slope * decay)
+}
+
+/// Entrainment shape factor H1 = (δ − δ*)/θ at shape factor `h`: Green's
+/// 3.15 + 1.72/(H − 1) − 0.01(H − 1)² (GWB 1973, from memory) up to
+/// [`ENTRAINMENT_CONTINUATION_SHAPE_FACTOR`], continued beyond it so that it stays positive.
+/// Strictly decreasing and C¹ in H; H guarded at 1.05.
 pub fn entrainment_shape_factor(h: f64) -> f64 {
-    let hm1 = guarded_shape_factor(h) - 1.0;
-    3.15 + 1.72 / hm1 - 0.01 * hm1 * hm1
+    entrainment_shape_factor_and_slope(h).0
 }
 
 /// dH1/dH of [`entrainment_shape_factor`] (on the guarded argument; always negative).
 pub fn entrainment_shape_factor_slope(h: f64) -> f64 {
-    let hm1 = guarded_shape_factor(h) - 1.0;
-    -1.72 / (hm1 * hm1) - 0.02 * hm1
+    entrainment_shape_factor_and_slope(h).1
 }
 
 /// Flat-plate skin friction cf0 = 0.01013/(log10 Re_θ − 1.02) − 0.00075 at `re_theta` = ue θ/ν
@@ -218,8 +256,37 @@ mod tests {
             let rate = lag_rate(h, ce_ceiling, re_theta, pi, false);
             assert!(rate.abs() < 1e-6, "H {h}: rate {rate}");
         }
-        // The closure's own equilibrium there would be far lower (the reason for the ceiling).
-        assert!(equilibrium_entrainment(15.0, re_theta) < 0.5 * ce_ceiling);
+        // The closure's own equilibrium there would be lower (the reason for the ceiling):
+        // 0.063 against 0.080 (0.037 before H1 was continued above H = 8).
+        assert!(equilibrium_entrainment(15.0, re_theta) < 0.8 * ce_ceiling);
+    }
+
+    #[test]
+    fn entrainment_shape_factor_stays_positive_decreasing_and_c1() {
+        // H1 = (δ − δ*)/θ > 0 by definition; strictly decreasing so that the entrainment
+        // equation fixes H. Below the join it is Green's relation unchanged:
+        // H1(2) = 3.15 + 1.72 − 0.01.
+        assert_relative_eq!(entrainment_shape_factor(2.0), 4.86, epsilon = 1e-12);
+        let mut previous = f64::INFINITY;
+        for i in 0..=198 {
+            let h = 1.1 + 0.5 * f64::from(i);
+            let h1 = entrainment_shape_factor(h);
+            assert!(
+                h1 > ENTRAINMENT_SHAPE_FACTOR_LIMIT && h1 < previous,
+                "H {h}: H1 {h1}"
+            );
+            previous = h1;
+        }
+        // C¹ at the join: one-sided differences (step 1e-6) agree to 1e-5 (the second
+        // derivatives there are O(0.1), so the differences themselves differ by ~1e-7).
+        let hj = ENTRAINMENT_CONTINUATION_SHAPE_FACTOR;
+        let d = 1e-6;
+        let left = (entrainment_shape_factor(hj) - entrainment_shape_factor(hj - d)) / d;
+        let right = (entrainment_shape_factor(hj + d) - entrainment_shape_factor(hj)) / d;
+        assert_relative_eq!(left, right, epsilon = 1e-5);
+        assert_relative_eq!(left, entrainment_shape_factor_slope(hj), epsilon = 1e-5);
+        // Green's quadratic alone is negative at H = 25: the reason for the continuation.
+        assert!(green_entrainment_shape_factor(25.0).0 < 0.0);
     }
 
     #[test]
