@@ -400,23 +400,33 @@ fn solve_alpha(
     }
 }
 
-/// Factors above the requested Reynolds number at which [`reynolds_continuation`] solves
-/// first, in order. Our choice, no source: a thinner layer couples more weakly with the
-/// panels, and a factor of two between steps keeps each warm start close (θ scales as Re^-½ in
-/// laminar and about Re^-⅕ in turbulent flow, so it changes by 15–40 % per step).
-const CONTINUATION_REYNOLDS_FACTORS: [f64; 3] = [8.0, 4.0, 2.0];
+/// Factors above the requested Reynolds number at which [`reynolds_continuation`] tries its cold
+/// start, in order. Our choice, no source: a thinner layer couples more weakly with the panels.
+const CONTINUATION_START_FACTORS: [f64; 3] = [8.0, 4.0, 2.0];
+/// Reynolds-number ratio of a normal continuation step. Our choice, no source: θ scales as
+/// Re^-½ in laminar and about Re^-⅕ in turbulent flow, so it changes by 15–40 % per step.
+const CONTINUATION_STEP_RATIO: f64 = 2.0;
+/// Most times a failed continuation step has its ratio square-rooted before the continuation
+/// gives up (2 → 1.41 → 1.19 → 1.09). Our choice, no source.
+const CONTINUATION_STEP_HALVINGS: usize = 3;
 
 /// Last resort for a point that neither a warm nor a cold start solves: the same point is
-/// solved cold at a higher Reynolds number, where the boundary layer is thinner and its
-/// interaction with the inviscid flow weaker, and the solution is carried down to the
-/// requested Reynolds number in steps of two, each warm-started from the one before, with the
-/// thicknesses scaled by (Re_before/Re)^½ (the laminar scaling; a guess that Newton corrects).
-/// `Some` only if the point converges at the requested Reynolds number.
+/// solved cold at a higher Reynolds number (the first of [`CONTINUATION_START_FACTORS`] that
+/// converges), where the boundary layer is thinner and its interaction with the inviscid flow
+/// weaker, and the solution is carried down to the requested Reynolds number, each step
+/// warm-started from the one before with the thicknesses scaled by (Re_before/Re)^½ (the laminar
+/// scaling; a guess that Newton corrects). Steps are normally a factor of two; a step that fails
+/// is retried with the square root of its ratio (halving it in log Re) up to
+/// [`CONTINUATION_STEP_HALVINGS`] times. `Some` only if the point converges at the requested
+/// Reynolds number.
 ///
 /// Seen to be needed on sections with a blunt trailing edge and trips near the leading edge at
 /// low Reynolds number (NACA 2412, trips at 10 %, Re 3e5): the initial marches give a state
 /// whose displacement at the thick trailing edge drives the edge speed there to twice the
 /// inviscid value, and Newton diverges from it; from the converged state at Re 1.2e6 it does not.
+/// The shorter steps are needed where long laminar bubbles change fast with Reynolds number
+/// (NACA 0018, 0°: a cold start converges at Re 9e4, 1.1e5 and 1.35e5 but not at 1e5 or 1.2e5
+/// at 160 panels; the step from 2e5 to 1e5 fails, shorter ones do not).
 fn reynolds_continuation(
     solver: &PanelSolver,
     setup: &InviscidSetup,
@@ -424,30 +434,41 @@ fn reynolds_continuation(
     alpha_deg: f64,
     settings: &ViscousSettings,
 ) -> Option<PointResult> {
-    let mut previous: Option<(f64, WarmStart)> = None;
-    for reynolds in CONTINUATION_REYNOLDS_FACTORS
-        .iter()
-        .map(|f| f * point.reynolds)
-        .chain(std::iter::once(point.reynolds))
-    {
+    let solve = |reynolds: f64, warm: Option<(f64, &WarmStart)>| {
         let step = OperatingPoint { reynolds, ..*point };
-        let warm = previous.map(|(from, mut w)| {
+        let warm = warm.map(|(from, w)| {
+            let mut w = w.clone();
             let scale = (from / reynolds).sqrt();
             w.state.theta.iter_mut().for_each(|t| *t *= scale);
             w.state.mass_defect.iter_mut().for_each(|m| *m *= scale);
             w
         });
-        let result =
-            attempt_alpha(solver, setup, &step, alpha_deg, settings, warm.as_ref()).ok()?;
-        if result.status != PointStatus::Converged {
-            return None;
+        attempt_alpha(solver, setup, &step, alpha_deg, settings, warm.as_ref())
+            .ok()
+            .filter(|r| r.status == PointStatus::Converged)
+    };
+    let (mut reynolds, mut solved) = CONTINUATION_START_FACTORS.iter().find_map(|f| {
+        let reynolds = f * point.reynolds;
+        solve(reynolds, None).map(|r| (reynolds, r))
+    })?;
+    let mut ratio = CONTINUATION_STEP_RATIO;
+    let mut halvings = 0;
+    loop {
+        let next = (reynolds / ratio).max(point.reynolds);
+        match solve(next, Some((reynolds, &solved.warm_start))) {
+            Some(r) if next == point.reynolds => return Some(r),
+            Some(r) => {
+                (reynolds, solved) = (next, r);
+                ratio = CONTINUATION_STEP_RATIO;
+                halvings = 0;
+            }
+            None if halvings < CONTINUATION_STEP_HALVINGS => {
+                ratio = ratio.sqrt();
+                halvings += 1;
+            }
+            None => return None,
         }
-        if reynolds == point.reynolds {
-            return Some(result);
-        }
-        previous = Some((reynolds, result.warm_start));
     }
-    None
 }
 
 /// The wake-curvature term of the interaction (Lock & Williams 1987, Prog. Aerospace Sci. 24;
