@@ -84,7 +84,9 @@ const EQUILIBRIUM_CEILING_WIDTH: f64 = 0.5;
 /// coupled NACA 0018 at Re 1e5, 0°, found a spurious root with negative H1: across transition in
 /// a long laminar bubble θ fell by 60 % while H jumped from 10.9 to 28.6 (flagged as a momentum
 /// collapse). The join lies above the shape factors that reattaching E387 bubbles reach after
-/// transition at Re 2e5–5e5 (H ≤ 7.6), so they are unaffected.
+/// transition at Re 2e5–5e5 (H ≤ 7.6), so their converged states are unchanged; Newton iterates
+/// can still pass above H = 8, and one warm-started E387 point (Re 3e5, −0.04°) now lands on a
+/// neighbouring root (transition at x/c 0.655 instead of 0.630, cd 1.4 % lower).
 pub const ENTRAINMENT_CONTINUATION_SHAPE_FACTOR: f64 = 8.0;
 /// Value that the continued H1 approaches as H → ∞ (our choice, no source: below Green's 2.91 at
 /// the join, so H1 stays strictly decreasing, which the entrainment equation needs to fix H).
