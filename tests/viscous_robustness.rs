@@ -377,14 +377,16 @@ fn long_bubbles_at_the_bottom_of_the_reynolds_range_converge() {
 /// panelling is symmetric and the iterations converge to updates of 1e-6; the asymmetric roots
 /// that the discrete equations also have differ by more: 0.003 in cl at 0°, Re 1.2e5).
 ///
-/// Guards two changes. (1) The entrainment shape factor's continuation above H = 8
+/// Guards three changes. (1) The entrainment shape factor's continuation above H = 8
 /// (`closure::lag_entrainment::ENTRAINMENT_CONTINUATION_SHAPE_FACTOR`): with Green's quadratic
 /// H1, negative past H ≈ 18.8, ±2° and ±1° failed (residual 2.4e6 and 9.4e9) and near 0° the
-/// Newton iterates fell into a root in which θ collapsed by 60 % across transition. (2) The
-/// Reynolds-number continuation's shorter steps (`foilsweep_viscous`): 0° fails cold at 160
-/// panels (a cold start converges at Re 9e4 and 1.1e5, not at 1e5), and the continuation's step
-/// from 2e5 to 1e5 failed; with shorter steps it converges to the symmetric state (cd 0.0203,
-/// the value 200 panels give cold).
+/// Newton iterates fell into a root in which θ collapsed by 60 % across transition. (2) and (3),
+/// either of which makes 0° converge: the direct march's starting wake held at the
+/// trailing-edge speed behind the blunt base (`interaction::march_sweep`), with which 0°
+/// converges cold, and the Reynolds-number continuation's shorter steps (`foilsweep_viscous`),
+/// the fallback with which it converged before (the step from 2e5 to 1e5 failed, shorter ones
+/// do not). Without both, 0° failed (residual 3.4e7). The symmetric state has cd 0.0203, the
+/// value 200 panels give cold.
 #[test]
 fn thick_section_with_long_bubbles_on_both_surfaces_converges() {
     let airfoil = naca_section("0018", 161, TrailingEdge::Open).expect("NACA 0018");
