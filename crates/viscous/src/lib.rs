@@ -409,6 +409,10 @@ const CONTINUATION_STEP_RATIO: f64 = 2.0;
 /// Most times a failed continuation step has its ratio square-rooted before the continuation
 /// gives up (2 → 1.41 → 1.19 → 1.09). Our choice, no source.
 const CONTINUATION_STEP_HALVINGS: usize = 3;
+/// Most solves one continuation may spend, cold starts included (our choice, no source: bounds
+/// the cost of a point that no path solves; a successful step resets the step to a factor of
+/// two, so without a cap a run of short successes could take about a hundred solves).
+const CONTINUATION_MAX_SOLVES: usize = 12;
 
 /// Last resort for a point that neither a warm nor a cold start solves: the same point is
 /// solved cold at a higher Reynolds number (the first of [`CONTINUATION_START_FACTORS`] that
@@ -417,8 +421,8 @@ const CONTINUATION_STEP_HALVINGS: usize = 3;
 /// warm-started from the one before with the thicknesses scaled by (Re_before/Re)^½ (the laminar
 /// scaling; a guess that Newton corrects). Steps are normally a factor of two; a step that fails
 /// is retried with the square root of its ratio (halving it in log Re) up to
-/// [`CONTINUATION_STEP_HALVINGS`] times. `Some` only if the point converges at the requested
-/// Reynolds number.
+/// [`CONTINUATION_STEP_HALVINGS`] times, within [`CONTINUATION_MAX_SOLVES`] solves in all. `Some`
+/// only if the point converges at the requested Reynolds number.
 ///
 /// Seen to be needed on sections with a blunt trailing edge and trips near the leading edge at
 /// low Reynolds number (NACA 2412, trips at 10 %, Re 3e5): the initial marches give a state
@@ -434,7 +438,12 @@ fn reynolds_continuation(
     alpha_deg: f64,
     settings: &ViscousSettings,
 ) -> Option<PointResult> {
+    let solves = std::cell::Cell::new(0);
     let solve = |reynolds: f64, warm: Option<(f64, &WarmStart)>| {
+        solves.set(solves.get() + 1);
+        if solves.get() > CONTINUATION_MAX_SOLVES {
+            return None;
+        }
         let step = OperatingPoint { reynolds, ..*point };
         let warm = warm.map(|(from, w)| {
             let mut w = w.clone();
@@ -462,7 +471,9 @@ fn reynolds_continuation(
                 ratio = CONTINUATION_STEP_RATIO;
                 halvings = 0;
             }
-            None if halvings < CONTINUATION_STEP_HALVINGS => {
+            None if halvings < CONTINUATION_STEP_HALVINGS
+                && solves.get() < CONTINUATION_MAX_SOLVES =>
+            {
                 ratio = ratio.sqrt();
                 halvings += 1;
             }
