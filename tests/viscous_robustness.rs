@@ -325,6 +325,15 @@ fn tripped_sections_with_a_blunt_trailing_edge_converge_at_low_reynolds_number()
     assert!(failures.is_empty(), "{failures:#?}");
 }
 
+/// True when the laminar layer of a surface separates and then transitions ahead of the trailing
+/// edge (a bubble, closed or bursting), not a laminar layer separated to the trailing edge.
+fn separates_then_transitions(surface: &foilsweep_driver::SurfaceEvents) -> bool {
+    matches!(
+        (surface.laminar_separation_x_over_c, surface.transition_x_over_c),
+        (Some(s), Some(t)) if s < t && t < 1.0
+    )
+}
+
 /// Long laminar separation bubbles at the bottom of the Reynolds-number range: the NACA 4412 as
 /// defined, no trips, Re 6e4, 0°–6°. Every point converges, and on the upper surface the
 /// laminar layer separates and then transitions ahead of the trailing edge (a bubble, closed or
@@ -359,11 +368,8 @@ fn long_bubbles_at_the_bottom_of_the_reynolds_range_converge() {
                 upper.laminar_separation_x_over_c,
                 upper.transition_x_over_c
             );
-            let bubble = matches!(
-                (upper.laminar_separation_x_over_c, upper.transition_x_over_c),
-                (Some(s), Some(t)) if s < t && t < 1.0
-            );
-            (!(p.converged && bubble)).then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
+            (!(p.converged && separates_then_transitions(upper)))
+                .then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
         })
         .collect();
     assert!(failures.is_empty(), "{failures:#?}");
@@ -397,12 +403,6 @@ fn thick_section_with_long_bubbles_on_both_surfaces_converges() {
     let failures: Vec<String> = points
         .iter()
         .filter_map(|p| {
-            let bubble = |s: &foilsweep_driver::SurfaceEvents| {
-                matches!(
-                    (s.laminar_separation_x_over_c, s.transition_x_over_c),
-                    (Some(sep), Some(tr)) if sep < tr && tr < 1.0
-                )
-            };
             println!(
                 "NACA 0018 Re 1e5 alpha {:?}: converged {}, cl {:?}, cd {:?}, transition upper \
                  {:?}, lower {:?}",
@@ -413,8 +413,8 @@ fn thick_section_with_long_bubbles_on_both_surfaces_converges() {
                 p.upper.transition_x_over_c,
                 p.lower.transition_x_over_c
             );
-            (!(p.converged && bubble(&p.upper) && bubble(&p.lower)))
-                .then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
+            let both = separates_then_transitions(&p.upper) && separates_then_transitions(&p.lower);
+            (!(p.converged && both)).then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
         })
         .collect();
     assert!(failures.is_empty(), "{failures:#?}");
