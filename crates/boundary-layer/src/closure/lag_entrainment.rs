@@ -85,8 +85,9 @@ const EQUILIBRIUM_CEILING_WIDTH: f64 = 0.5;
 /// a long laminar bubble θ fell by 60 % while H jumped from 10.9 to 28.6 (flagged as a momentum
 /// collapse). The join lies above the shape factors that reattaching E387 bubbles reach after
 /// transition at Re 2e5–5e5 (H ≤ 7.6), so their converged states are unchanged; Newton iterates
-/// can still pass above H = 8, and one warm-started E387 point (Re 3e5, −0.04°) now lands on a
-/// neighbouring root (transition at x/c 0.655 instead of 0.630, cd 1.4 % lower).
+/// can still pass above H = 8, and two warm-started E387 points now land on neighbouring roots:
+/// Re 3e5, −0.04° (transition at x/c 0.655 instead of 0.630, cd 1.4 % lower) and Re 5e5, −2.16°
+/// (cd 4.3 % higher: +1.7 % against the wind-tunnel value instead of −2.5 %).
 pub const ENTRAINMENT_CONTINUATION_SHAPE_FACTOR: f64 = 8.0;
 /// Value that the continued H1 approaches as H → ∞ (our choice, no source: below Green's 2.91 at
 /// the join, so H1 stays strictly decreasing, which the entrainment equation needs to fix H).
