@@ -334,6 +334,24 @@ fn separates_then_transitions(surface: &foilsweep_driver::SurfaceEvents) -> bool
     )
 }
 
+/// Prints one point of a long-bubble test: convergence, cl, cd and, per surface, laminar
+/// separation and transition x/c.
+fn print_bubble_point(label: &str, p: &foilsweep_driver::PolarPoint) {
+    let events = |s: &foilsweep_driver::SurfaceEvents| {
+        (s.laminar_separation_x_over_c, s.transition_x_over_c)
+    };
+    println!(
+        "{label} alpha {:?}: converged {}, cl {:?}, cd {:?}, separation/transition upper {:?}, \
+         lower {:?}",
+        p.alpha_deg,
+        p.converged,
+        p.cl,
+        p.cd,
+        events(&p.upper),
+        events(&p.lower)
+    );
+}
+
 /// Long laminar separation bubbles at the bottom of the Reynolds-number range: the NACA 4412 as
 /// defined, no trips, Re 6e4, 0°–6°. Every point converges, and on the upper surface the
 /// laminar layer separates and then transitions ahead of the trailing edge (a bubble, closed or
@@ -357,18 +375,8 @@ fn long_bubbles_at_the_bottom_of_the_reynolds_range_converge() {
     let failures: Vec<String> = points
         .iter()
         .filter_map(|p| {
-            let upper = &p.upper;
-            println!(
-                "NACA 4412 Re 6e4 alpha {:?}: converged {}, cl {:?}, cd {:?}, upper separation \
-                 {:?}, transition {:?}",
-                p.alpha_deg,
-                p.converged,
-                p.cl,
-                p.cd,
-                upper.laminar_separation_x_over_c,
-                upper.transition_x_over_c
-            );
-            (!(p.converged && separates_then_transitions(upper)))
+            print_bubble_point("NACA 4412 Re 6e4", p);
+            (!(p.converged && separates_then_transitions(&p.upper)))
                 .then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
         })
         .collect();
@@ -403,16 +411,7 @@ fn thick_section_with_long_bubbles_on_both_surfaces_converges() {
     let failures: Vec<String> = points
         .iter()
         .filter_map(|p| {
-            println!(
-                "NACA 0018 Re 1e5 alpha {:?}: converged {}, cl {:?}, cd {:?}, transition upper \
-                 {:?}, lower {:?}",
-                p.alpha_deg,
-                p.converged,
-                p.cl,
-                p.cd,
-                p.upper.transition_x_over_c,
-                p.lower.transition_x_over_c
-            );
+            print_bubble_point("NACA 0018 Re 1e5", p);
             let both = separates_then_transitions(&p.upper) && separates_then_transitions(&p.lower);
             (!(p.converged && both)).then(|| format!("alpha {:?}: {:?}", p.alpha_deg, p.flag))
         })
