@@ -232,6 +232,18 @@ pub fn run(args: &Args, out: &mut dyn Write) -> anyhow::Result<Completion> {
              they are flagged in the outputs"
         );
     }
+    let open = polar
+        .points
+        .iter()
+        .filter(|p| p.converged && (p.upper.bubble_is_open() || p.lower.bubble_is_open()))
+        .count();
+    if open > 0 {
+        eprintln!(
+            "note: at {open} of {total} points a surface separates laminar and does not reattach \
+             before the trailing edge (bubble 'open' in the table); far upstream of the trailing \
+             edge this is where the model is least reliable (README, Cautions)"
+        );
+    }
     Ok(if polar.flagged_count() > 0 {
         Completion::Flagged
     } else {

@@ -94,6 +94,12 @@ pub struct SurfaceEvents {
 }
 
 impl SurfaceEvents {
+    /// True when the layer separates laminar and does not reattach before the trailing edge
+    /// (an open bubble, or laminar separation at the trailing edge).
+    pub fn bubble_is_open(&self) -> bool {
+        self.laminar_separation_x_over_c.is_some() && self.bubble_length_x_over_c.is_none()
+    }
+
     /// Events of a converged surface result.
     pub fn from_surface(surface: &SurfaceResult) -> Self {
         Self::from_events(
@@ -315,6 +321,7 @@ mod tests {
         assert_eq!(found.turbulent_separation_x_over_c, Some(0.95));
         assert_abs_diff_eq!(found.bubble_length_x_over_c.unwrap(), 0.15, epsilon = 1e-12);
         assert_eq!(found.transition_forced, Some(false));
+        assert!(!found.bubble_is_open());
     }
 
     #[test]
@@ -324,5 +331,7 @@ mod tests {
         assert_eq!(found.bubble_length_x_over_c, None);
         assert_eq!(found.transition_x_over_c, None);
         assert_eq!(found.transition_forced, None);
+        assert!(found.bubble_is_open());
+        assert!(!SurfaceEvents::from_events(&[], None, false).bubble_is_open());
     }
 }

@@ -2,7 +2,7 @@
 
 use std::io::{self, Write};
 
-use crate::output::{Polar, PolarPoint, TargetKind};
+use crate::output::{Polar, PolarPoint, SurfaceEvents, TargetKind};
 
 /// `value` with `decimals` decimals right-aligned in `width`, or `-` when missing.
 fn number(value: Option<f64>, width: usize, decimals: usize) -> String {
@@ -10,6 +10,24 @@ fn number(value: Option<f64>, width: usize, decimals: usize) -> String {
         Some(v) => format!("{v:>width$.decimals$}"),
         None => format!("{:>width$}", "-"),
     }
+}
+
+/// Width of a bubble cell.
+const BUBBLE_WIDTH: usize = 11;
+
+/// The laminar separation bubble of a surface as "S-R" in x/c, "S-open" when the layer that
+/// separates laminar does not reattach before the trailing edge, `-` without laminar
+/// separation.
+fn bubble(events: &SurfaceEvents) -> String {
+    let cell = match (
+        events.laminar_separation_x_over_c,
+        events.bubble_length_x_over_c,
+    ) {
+        (Some(s), Some(length)) => format!("{s:.3}-{:.3}", s + length),
+        (Some(s), None) => format!("{s:.3}-open"),
+        (None, _) => "-".to_owned(),
+    };
+    format!("{cell:>BUBBLE_WIDTH$}")
 }
 
 fn row(point: &PolarPoint, target: TargetKind) -> String {
@@ -25,6 +43,8 @@ fn row(point: &PolarPoint, target: TargetKind) -> String {
         number(point.lift_to_drag(), 7, 1),
         number(point.upper.transition_x_over_c, 9, 3),
         number(point.lower.transition_x_over_c, 9, 3),
+        bubble(&point.upper),
+        bubble(&point.lower),
     ]);
     let mut line = cells.join(" ");
     if let Some(flag) = &point.flag {
@@ -36,7 +56,9 @@ fn row(point: &PolarPoint, target: TargetKind) -> String {
 
 /// Writes the table: a heading with the section and settings, then per Reynolds number a
 /// block with alpha (deg), cl, cd, cm (quarter chord), L/D, transition x/c on the upper and
-/// lower surface, and the flag of flagged points. Missing values print as `-`.
+/// lower surface, the laminar separation bubble on each (laminar separation to reattachment,
+/// x/c, or "open" when the separated layer does not reattach before the trailing edge), and the
+/// flag of flagged points. Missing values print as `-`.
 pub fn write_table(out: &mut dyn Write, polar: &Polar) -> io::Result<()> {
     let settings = &polar.settings;
     writeln!(
@@ -63,6 +85,8 @@ pub fn write_table(out: &mut dyn Write, polar: &Polar) -> io::Result<()> {
         format!("{:>7}", "L/D"),
         format!("{:>9}", "tr_upper"),
         format!("{:>9}", "tr_lower"),
+        format!("{:>BUBBLE_WIDTH$}", "bubble_up"),
+        format!("{:>BUBBLE_WIDTH$}", "bubble_lo"),
     ]);
     let header = format!("{}  flag", header.join(" "));
     for &reynolds in &polar.reynolds {
@@ -95,5 +119,25 @@ mod tests {
         assert!(failed.trim_start().starts_with("6.00        -"), "{failed}");
         // cl 0.22 / cd 0.006484 at alpha 2 (the invented sample): L/D 33.9.
         assert!(text.contains("   33.9"), "{text}");
+        // Upper bubble at alpha 2: transition 0.5, separation 0.45, reattachment 0.53.
+        assert!(text.contains("0.450-0.530"), "{text}");
+    }
+
+    #[test]
+    fn bubble_cell_shows_separation_to_reattachment_or_open() {
+        let closed = SurfaceEvents {
+            laminar_separation_x_over_c: Some(0.42),
+            reattachment_x_over_c: Some(0.64),
+            bubble_length_x_over_c: Some(0.22),
+            ..SurfaceEvents::default()
+        };
+        assert_eq!(bubble(&closed).trim(), "0.420-0.640");
+        let open = SurfaceEvents {
+            laminar_separation_x_over_c: Some(0.43),
+            ..SurfaceEvents::default()
+        };
+        assert_eq!(bubble(&open).trim(), "0.430-open");
+        assert_eq!(bubble(&SurfaceEvents::default()).trim(), "-");
+        assert_eq!(bubble(&closed).len(), BUBBLE_WIDTH);
     }
 }
