@@ -2,8 +2,11 @@
 //! x/c–alpha, one series per Reynolds number.
 //!
 //! Only unflagged converged points are drawn. Lines join neighbouring targets only; a flagged
-//! point breaks the line, so no curve is drawn through a point that was not computed. Every
-//! caption says the numbers are an engineering estimate.
+//! point breaks the line, so no curve is drawn through a point that was not computed. A point
+//! where either surface separates laminar and does not reattach before the trailing edge (an
+//! open bubble, [`crate::output::SurfaceEvents::bubble_is_open`]) gets a black ring and one
+//! legend entry, so the states the model predicts least reliably stand out. Every caption says
+//! the numbers are an engineering estimate.
 
 use std::io;
 
@@ -86,10 +89,14 @@ impl PlotKind {
     }
 }
 
-/// One drawn curve: its legend label and its unbroken segments.
+/// Legend entry of the rings around open-bubble points.
+const OPEN_BUBBLE_LABEL: &str = "laminar separation not reattaching (open bubble)";
+
+/// One drawn curve: its legend label, its unbroken segments and its open-bubble points.
 struct Curve {
     label: String,
     segments: Vec<Vec<(f64, f64)>>,
+    open_bubble: Vec<(f64, f64)>,
     colour: usize,
     triangles: bool,
 }
@@ -107,12 +114,16 @@ fn curves(polar: &Polar, kind: PlotKind) -> Vec<Curve> {
         points.sort_by(|a, b| a.0.total_cmp(&b.0));
         for (curve, name) in kind.curve_names().iter().enumerate() {
             let mut segments = vec![Vec::new()];
+            let mut open_bubble = Vec::new();
             for (_, point) in &points {
                 let value = if point.is_clean() {
                     kind.values(point)[curve].filter(|(x, y)| x.is_finite() && y.is_finite())
                 } else {
                     None
                 };
+                if point.upper.bubble_is_open() || point.lower.bubble_is_open() {
+                    open_bubble.extend(value);
+                }
                 match (value, segments.last_mut()) {
                     (Some(xy), Some(segment)) => segment.push(xy),
                     _ => segments.push(Vec::new()),
@@ -127,6 +138,7 @@ fn curves(polar: &Polar, kind: PlotKind) -> Vec<Curve> {
             curves.push(Curve {
                 label,
                 segments,
+                open_bubble,
                 colour,
                 triangles: curve == 1,
             });
@@ -218,6 +230,18 @@ fn draw(polar: &Polar, kind: PlotKind, svg: &mut String) -> Result<(), String> {
                 .legend(move |(x, y)| line(x, y) + Circle::new((10, 0), 3, colour.filled()));
         }
     }
+    let rings: Vec<(f64, f64)> = curves
+        .iter()
+        .flat_map(|c| c.open_bubble.iter().copied())
+        .collect();
+    if !rings.is_empty() {
+        let ring = BLACK.stroke_width(1);
+        chart
+            .draw_series(rings.into_iter().map(|p| Circle::new(p, 7, ring)))
+            .map_err(error)?
+            .label(OPEN_BUBBLE_LABEL)
+            .legend(move |(x, y)| Circle::new((x + 10, y), 7, ring));
+    }
     if !curves.is_empty() {
         chart
             .configure_series_labels()
@@ -265,6 +289,22 @@ mod tests {
             assert!(svg.contains("engineering estimate"));
             assert!(svg.contains("Re 1000000"));
         }
+    }
+
+    #[test]
+    fn open_bubble_points_are_ringed_and_named_in_the_legend() {
+        let mut polar = sample_polar();
+        assert!(!plot_svg(&polar, PlotKind::ClAlpha)
+            .unwrap()
+            .contains(OPEN_BUBBLE_LABEL));
+        // Re 1e6, alpha 2: the upper bubble no longer reattaches.
+        polar.points[6].upper.reattachment_x_over_c = None;
+        polar.points[6].upper.bubble_length_x_over_c = None;
+        let lift = curves(&polar, PlotKind::ClAlpha);
+        assert!(lift[0].open_bubble.is_empty());
+        assert_eq!(lift[1].open_bubble, vec![(2.0, 0.11 * 2.0)]);
+        let svg = plot_svg(&polar, PlotKind::ClAlpha).unwrap();
+        assert!(svg.contains(OPEN_BUBBLE_LABEL));
     }
 
     #[test]
