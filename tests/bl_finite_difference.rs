@@ -553,9 +553,10 @@ fn orr_sommerfeld(grid: &Grid, u: &[f64], u_second: &[f64], alpha: f64, re: f64)
 }
 
 /// The least stable Tollmien–Schlichting eigenvalue: largest imaginary part among
-/// 0 < c_r < 0.9 and |c_i| < 0.1. This leaves out the continuous spectrum of the boundary layer
-/// (c_r → 1, the free-stream speed) and the spurious modes of the collocation (|c_i| of order
-/// 1/α, c_r near 1); `None` when no such mode exists (the wave is far outside the unstable band).
+/// 0 < c_r < 0.9 and |c_i| < 0.1 (bounds our choice, no source). This leaves out the continuous
+/// spectrum of the boundary layer (c_r → 1, the free-stream speed) and the spurious modes of the
+/// collocation (|c_i| of order 1/α, c_r near 1); `None` when no such mode exists (the wave is
+/// far outside the unstable band).
 fn least_stable(eigenvalues: &[C]) -> Option<C> {
     eigenvalues
         .iter()
@@ -596,7 +597,9 @@ fn temporal_eigenvalue(
     least_stable(&orr_sommerfeld(grid, &u, &u_second, alpha, re))
 }
 
-/// Smallest group velocity (in units of the edge speed) accepted by Gaster's transformation.
+/// Smallest group velocity (in units of the edge speed) accepted by Gaster's transformation (our
+/// choice, no source: Tollmien–Schlichting waves travel at roughly 0.3–0.5 of the edge speed;
+/// below 0.1 the transformation divides by a vanishing slope and the rate is meaningless).
 const MIN_GROUP_VELOCITY: f64 = 0.1;
 
 /// Wavenumbers (on the profile length √(ν s/ue)) over which the growth rates are computed.

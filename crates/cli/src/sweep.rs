@@ -232,11 +232,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> anyhow::Result<Completion> {
              they are flagged in the outputs"
         );
     }
-    let open = polar
-        .points
-        .iter()
-        .filter(|p| p.converged && (p.upper.bubble_is_open() || p.lower.bubble_is_open()))
-        .count();
+    let open = polar.points.iter().filter(|p| p.has_open_bubble()).count();
     if open > 0 {
         eprintln!(
             "note: at {open} of {total} points a surface separates laminar and does not reattach \

@@ -250,6 +250,12 @@ impl PolarPoint {
     pub fn is_clean(&self) -> bool {
         self.converged && self.flag.is_none()
     }
+
+    /// True when the point converged with an open bubble on either surface
+    /// ([`SurfaceEvents::bubble_is_open`]).
+    pub fn has_open_bubble(&self) -> bool {
+        self.converged && (self.upper.bubble_is_open() || self.lower.bubble_is_open())
+    }
 }
 
 /// A viscous polar of one section over one or more Reynolds numbers.

@@ -121,7 +121,7 @@ fn curves(polar: &Polar, kind: PlotKind) -> Vec<Curve> {
                 } else {
                     None
                 };
-                if point.upper.bubble_is_open() || point.lower.bubble_is_open() {
+                if point.has_open_bubble() {
                     open_bubble.extend(value);
                 }
                 match (value, segments.last_mut()) {
