@@ -15,6 +15,12 @@
 //! the envelope approximates. On Falkner–Skan flows it checks the envelope correlation itself
 //! (recalled from memory); on the E387 at 7.15° it shows how much of the early transition there
 //! is the envelope and how much the critical N itself.
+//!
+//! The third is spatial linear stability (the same equation with the frequency given and the
+//! complex wavenumber sought, checked against Gaster's transformation on Blasius), which also
+//! holds on the reversed-flow profiles of a separated layer where the temporal route fails: it
+//! checks the envelope's rate inside laminar separation bubbles, on Stewartson's profiles and
+//! along the E387 bubble at 4°, Re 2e5.
 
 use foilsweep_boundary_layer::closure::{laminar, laminar_blend, transition};
 use foilsweep_boundary_layer::falkner_skan::{self, Branch};
@@ -341,9 +347,9 @@ fn howarth_flow_against_the_finite_difference_reference() {
 /// Critical N of the coupled solutions here (the default of the validation checks).
 const CRITICAL_N: f64 = 9.0;
 
-/// Upper surface of the coupled E387 solution at 7.15°, Re 3e5, 160 panels, reached in 0.5°
-/// steps from 0° as a polar does, with the given critical N.
-fn e387_upper_surface(critical_n: f64) -> SurfaceResult {
+/// Upper surface of the coupled E387 solution at `alpha_deg` and `reynolds`, 160 panels, reached
+/// in 0.5° steps from 0° as a polar does, with the given critical N.
+fn e387_upper_surface(alpha_deg: f64, reynolds: f64, critical_n: f64) -> SurfaceResult {
     let text = std::fs::read_to_string(airfoil_path("e387.dat")).expect("shipped E387");
     let airfoil = Airfoil::parse(&text, "e387.dat", &ParseOptions::default())
         .expect("E387 parses")
@@ -351,19 +357,18 @@ fn e387_upper_surface(critical_n: f64) -> SurfaceResult {
     let solver = PanelSolver::new(airfoil.repanel(160).expect("repanel").points()).expect("panels");
     let settings = ViscousSettings::default();
     let mut warm = None;
-    let mut result = None;
-    for alpha in [
-        0.0, 0.5, 1.0, 1.5, 2.0, 2.5, 3.0, 3.5, 4.0, 4.5, 5.0, 5.5, 6.0, 6.5, 7.0, 7.15,
-    ] {
-        let mut point = OperatingPoint::at_alpha_deg(alpha, 3.0e5);
+    let mut alpha: f64 = 0.0;
+    loop {
+        let mut point = OperatingPoint::at_alpha_deg(alpha, reynolds);
         point.critical_n = critical_n;
-        let r = solve_point(&solver, &point, &settings, warm.as_ref()).expect("solves");
-        warm = Some(r.warm_start.clone());
-        result = Some(r);
+        let result = solve_point(&solver, &point, &settings, warm.as_ref()).expect("solves");
+        if alpha >= alpha_deg {
+            assert_eq!(result.status, PointStatus::Converged);
+            return result.upper;
+        }
+        warm = Some(result.warm_start);
+        alpha = (alpha + 0.5).min(alpha_deg);
     }
-    let result = result.expect("solved");
-    assert_eq!(result.status, PointStatus::Converged);
-    result.upper
 }
 
 /// Laminar stations (arc length, x/c, state) from the stagnation point up to transition.
@@ -405,7 +410,7 @@ fn laminar_edge_speed(laminar: &[(f64, f64, &StationState)]) -> EdgeSpeed {
 ///   x/c 0.181, transition 0.182) and this check failed. It guards ≤ 0.8, the reached level.
 #[test]
 fn e387_suction_peak_amplification_against_the_finite_difference_reference() {
-    let upper = e387_upper_surface(CRITICAL_N);
+    let upper = e387_upper_surface(7.15, 3.0e5, CRITICAL_N);
     let transition = upper.transition_x_over_c.expect("upper transition");
     let laminar = laminar_stations(&upper);
     let edge = laminar_edge_speed(&laminar);
@@ -699,7 +704,7 @@ fn orr_sommerfeld_solver_against_published_eigenvalues() {
     assert!((c.re - 0.23752649).abs() <= 1e-7 && (c.im - 0.00373967).abs() <= 1e-7);
 
     // Blasius: the Falkner–Skan profile at β = 0, on the similarity variable η = y √(ue/(2νx)).
-    let (eta, u, u_second, theta_eta, h) = falkner_skan_profile(0.0);
+    let (eta, u, u_second, theta_eta, h) = falkner_skan_profile(0.0, Branch::Attached);
     let displacement = h * theta_eta; // δ* on this η scale
     let grid = Grid::boundary_layer(60, 3.0, 60.0);
     let most_amplified = |re: f64| {
@@ -757,7 +762,7 @@ fn orr_sommerfeld_solver_against_published_eigenvalues() {
 fn e387_envelope_against_fixed_frequency_linear_stability() {
     let reynolds = 3.0e5;
     let grid = Grid::boundary_layer(60, 4.0, 80.0);
-    let upper = e387_upper_surface(CRITICAL_N);
+    let upper = e387_upper_surface(7.15, 3.0e5, CRITICAL_N);
     let laminar = laminar_stations(&upper);
     let edge = laminar_edge_speed(&laminar);
     let s_last = laminar.last().expect("laminar stations").0;
@@ -770,7 +775,7 @@ fn e387_envelope_against_fixed_frequency_linear_stability() {
     println!("N_crit 9: at x/c {x:.3} envelope {n_envelope:.2}, fixed frequencies {n_fixed:.2}");
     assert!(n_fixed < n_envelope && n_envelope - n_fixed <= 0.5);
 
-    let held_off = e387_upper_surface(14.0);
+    let held_off = e387_upper_surface(7.15, 3.0e5, 14.0);
     let separation = held_off
         .events
         .iter()
@@ -813,8 +818,8 @@ fn upper_x_over_c(laminar: &[(f64, f64, &StationState)], s: f64) -> f64 {
 /// Falkner–Skan profile at `beta` (attached branch) on a uniform η grid of the similarity
 /// variable η = y √((m + 1) ue/(2 ν x)): RK4 on f‴ = −f f″ − β(1 − f′²) from the solver's wall
 /// shear, returning (η, u = f′, u″ = f‴), θ in η units and H.
-fn falkner_skan_profile(beta: f64) -> (Vec<f64>, Vec<f64>, Vec<f64>, f64, f64) {
-    let solution = falkner_skan::solve(beta, Branch::Attached).expect("Falkner-Skan solution");
+fn falkner_skan_profile(beta: f64, branch: Branch) -> (Vec<f64>, Vec<f64>, Vec<f64>, f64, f64) {
+    let solution = falkner_skan::solve(beta, branch).expect("Falkner-Skan solution");
     let step = 1e-3;
     let rhs = |f: f64, fp: f64, fpp: f64| [fp, fpp, -f * fpp - beta * (1.0 - fp * fp)];
     let mut state = [0.0, 0.0, solution.wall_shear];
@@ -873,7 +878,7 @@ fn re_theta_at_nine(curve: &[(f64, f64)]) -> f64 {
 fn envelope_correlation_against_linear_stability_on_falkner_skan_flows() {
     let grid = Grid::boundary_layer(60, 3.0, 60.0);
     for beta in [0.0, -0.1, -0.16] {
-        let (eta, u, u_second, theta_eta, h) = falkner_skan_profile(beta);
+        let (eta, u, u_second, theta_eta, h) = falkner_skan_profile(beta, Branch::Attached);
         let m = beta / (2.0 - beta);
         // η scale L = √(2x/((m + 1) ue)) with ν = 1, ue = x^m; Re_θ = ue θ_η L.
         let c0 = (2.0 / (m + 1.0)).sqrt();
@@ -915,4 +920,334 @@ fn envelope_correlation_against_linear_stability_on_falkner_skan_flows() {
         );
         assert!((by_envelope / by_theory - 1.0).abs() <= 0.1);
     }
+}
+
+/// Spatial eigenvalues α (complex wavenumbers) of the Orr–Sommerfeld equation at the real
+/// frequency `omega`, written as a polynomial in α,
+/// Σ αᵏ Cₖ φ = 0 with C₀ = −ωD² + (i/Re)D⁴, C₁ = U D² − U″, C₂ = ω − (2i/Re)D², C₃ = −U,
+/// C₄ = i/Re, and linearised in the companion form on z = (φ, αφ, α²φ, α³φ). The boundary rows
+/// (φ = φ′ = 0 at both ends) replace the equation's rows at the end points; as in the temporal
+/// solver the shift and invert maps their infinite eigenvalues to zero.
+fn orr_sommerfeld_spatial(grid: &Grid, u: &[f64], u_second: &[f64], omega: f64, re: f64) -> Vec<C> {
+    let n = grid.y.len();
+    let i_re = C::new(0.0, 1.0 / re);
+    let mut a = DMatrix::<C>::zeros(4 * n, 4 * n);
+    let mut b = DMatrix::<C>::zeros(4 * n, 4 * n);
+    for k in 0..3 * n {
+        a[(k, k + n)] = C::from(1.0);
+        b[(k, k)] = C::from(1.0);
+    }
+    let last = 3 * n;
+    for i in 0..n {
+        for j in 0..n {
+            let identity = if i == j { 1.0 } else { 0.0 };
+            let (d2, d4) = (grid.d2[(i, j)], grid.d4[(i, j)]);
+            let c0 = C::from(-omega * d2) + i_re * d4;
+            let c1 = C::from(u[i] * d2 - u_second[i] * identity);
+            let c2 = C::from(omega * identity) - i_re * (2.0 * d2);
+            let c3 = C::from(-u[i] * identity);
+            a[(last + i, j)] = -c0;
+            a[(last + i, n + j)] = -c1;
+            a[(last + i, 2 * n + j)] = -c2;
+            a[(last + i, 3 * n + j)] = -c3;
+            b[(last + i, 3 * n + j)] = i_re * identity;
+        }
+    }
+    for (row, node, slope) in [
+        (0, 0, false),
+        (1, 0, true),
+        (n - 1, n - 1, false),
+        (n - 2, n - 1, true),
+    ] {
+        for j in 0..4 * n {
+            b[(last + row, j)] = C::from(0.0);
+            a[(last + row, j)] = C::from(0.0);
+        }
+        for j in 0..n {
+            a[(last + row, j)] = C::from(if slope {
+                grid.d1[(node, j)]
+            } else if j == node {
+                1.0
+            } else {
+                0.0
+            });
+        }
+    }
+    let shift = C::from(0.2);
+    let inverse = (&a - &b * shift)
+        .lu()
+        .solve(&b)
+        .expect("shifted spatial Orr-Sommerfeld operator is regular");
+    inverse
+        .eigenvalues()
+        .expect("eigenvalues of a complex matrix")
+        .iter()
+        .filter(|mu| mu.norm() > 1e-8)
+        .map(|mu| shift + C::from(1.0) / mu)
+        .collect()
+}
+
+/// The downstream-travelling wave with the largest spatial growth among the spatial eigenvalues
+/// at frequency `omega`: phase speed ω/α_r between 0.1 and 0.9 of the edge speed, |α_i| < α_r and
+/// |α| θ < 2 with `theta` on the profile's scale (bounds our choice, no source). This leaves out
+/// the evanescent branches (α_r ≈ 0 with large −α_i), the continuous spectrum (phase speed → 1)
+/// and a slow mode of the reversed-flow profiles (phase speed about 0.06, −α_i ≈ α_r) whose
+/// direction of travel the spatial problem alone cannot tell (that needs the Briggs–Bers
+/// criterion, not applied here).
+fn most_amplified_spatial(alphas: &[C], omega: f64, theta: f64) -> Option<C> {
+    alphas
+        .iter()
+        .filter(|a| {
+            let phase_speed = omega / a.re;
+            a.re > 0.0
+                && (0.1..0.9).contains(&phase_speed)
+                && a.im.abs() < a.re
+                && a.norm() * theta < 2.0
+        })
+        .min_by(|p, q| p.im.total_cmp(&q.im))
+        .copied()
+}
+
+/// A Falkner–Skan profile (attached or reversed branch, whichever carries this shape factor)
+/// interpolated onto a collocation grid, with its momentum thickness in η units.
+struct SimilarityProfile {
+    u: Vec<f64>,
+    u_second: Vec<f64>,
+    theta_eta: f64,
+}
+
+impl SimilarityProfile {
+    fn with_shape_factor(shape_factor: f64, grid: &Grid) -> Self {
+        let solution = falkner_skan::solve_shape_factor(shape_factor).expect("Falkner-Skan by H");
+        Self::new(solution.beta, solution.branch, grid)
+    }
+
+    fn new(beta: f64, branch: Branch, grid: &Grid) -> Self {
+        let (eta, u, u_second, theta_eta, _) = falkner_skan_profile(beta, branch);
+        let (u, u_second) = grid
+            .y
+            .iter()
+            .map(|&y| profile_at(&eta, &u, &u_second, y))
+            .unzip();
+        SimilarityProfile {
+            u,
+            u_second,
+            theta_eta,
+        }
+    }
+
+    /// Spatial growth rate −α_i θ of the most amplified downstream wave at the local frequency
+    /// ω θ/ue = `omega_theta` and Reynolds number `re_theta` (both on the momentum thickness).
+    fn growth_rate(&self, grid: &Grid, omega_theta: f64, re_theta: f64) -> Option<f64> {
+        let omega = omega_theta / self.theta_eta;
+        let re = re_theta / self.theta_eta;
+        let alphas = orr_sommerfeld_spatial(grid, &self.u, &self.u_second, omega, re);
+        most_amplified_spatial(&alphas, omega, self.theta_eta).map(|a| -a.im * self.theta_eta)
+    }
+}
+
+/// The spatial solver against Gaster's (1962, JFM 14) transformation on the Blasius profile at
+/// Re_δ* = 1000, ω δ*/ue = 0.1, where the wave grows slowly and the transformation
+/// −α_i = ω_i/(∂ω_r/∂α) is accurate to first order in the growth rate. The temporal solver is
+/// the one checked against Orszag (1971) above.
+///
+/// Measured: spatial α δ* = 0.27983 − 0.00729 i; the temporal eigenvalue at that real α gives
+/// ω_r δ*/ue = 0.10008 and, through the group velocity 0.426, −α_i δ* = 0.00724 (−0.8 %).
+/// Tolerance 2 % on the growth rate (the transformation's own first-order error at this growth)
+/// and 0.5 % on ω_r.
+#[test]
+fn spatial_solver_against_gaster_transformation() {
+    let grid = Grid::boundary_layer(60, 3.0, 60.0);
+    let (eta, u, u_second, theta_eta, h) = falkner_skan_profile(0.0, Branch::Attached);
+    let blasius = SimilarityProfile::new(0.0, Branch::Attached, &grid);
+    let displacement = h * theta_eta; // δ* on the η scale
+    let (omega, re) = (0.1 / displacement, 1000.0 / displacement);
+    let alphas = orr_sommerfeld_spatial(&grid, &blasius.u, &blasius.u_second, omega, re);
+    let spatial = most_amplified_spatial(&alphas, omega, theta_eta).expect("Blasius TS wave");
+    let temporal = |a: f64| {
+        temporal_eigenvalue(&grid, &eta, &u, &u_second, a, re).expect("temporal TS wave") * a
+    };
+    let (below, at, above) = (
+        temporal(0.99 * spatial.re),
+        temporal(spatial.re),
+        temporal(1.01 * spatial.re),
+    );
+    let group_velocity = (above.re - below.re) / (0.02 * spatial.re);
+    let gaster = at.im / group_velocity;
+    println!(
+        "Blasius Re_dstar 1000, omega 0.1: spatial alpha dstar {:.5} {:+.5} i; temporal omega_r \
+         {:.5}, group velocity {group_velocity:.3}, Gaster -alpha_i dstar {:.5}",
+        spatial.re * displacement,
+        spatial.im * displacement,
+        at.re * displacement,
+        gaster * displacement
+    );
+    assert!((at.re / omega - 1.0).abs() <= 0.005);
+    assert!((gaster / -spatial.im - 1.0).abs() <= 0.02);
+}
+
+/// Largest local spatial growth rate −α_i θ over frequencies at `re_theta`: a scan in ω θ/ue from
+/// 0.012 in steps of 15 % and a parabola in ln ω through the best point and its neighbours.
+fn largest_growth_rate(profile: &SimilarityProfile, grid: &Grid, re_theta: f64) -> f64 {
+    let omegas: Vec<f64> = (0..17).map(|k| 0.012 * 1.15f64.powi(k)).collect();
+    let rates: Vec<f64> = omegas
+        .iter()
+        .map(|&w| {
+            profile
+                .growth_rate(grid, w, re_theta)
+                .unwrap_or(f64::NEG_INFINITY)
+        })
+        .collect();
+    let k = (1..rates.len() - 1)
+        .max_by(|&i, &j| rates[i].total_cmp(&rates[j]))
+        .expect("frequencies");
+    let (r0, r1, r2) = (rates[k - 1], rates[k], rates[k + 1]);
+    assert!(
+        r1.is_finite() && r1 >= r0 && r1 >= r2,
+        "maximum inside the scan"
+    );
+    // Vertex of the parabola through three equally spaced points (in ln ω).
+    let curvature = r0 - 2.0 * r1 + r2;
+    if curvature < 0.0 {
+        r1 - (r2 - r0).powi(2) / (8.0 * curvature)
+    } else {
+        r1
+    }
+}
+
+/// The envelope rate of Drela & Giles (1987) in separated flow against spatial linear stability
+/// on Stewartson's reversed-flow Falkner–Skan profiles (the branch the correlation is said to
+/// cover, METHODS §4.2), at Re_θ = 300, the level of the E387 bubbles at Re 2e5.
+///
+/// The envelope N of fixed frequencies grows at the local rate of the frequency that currently
+/// has the largest N, so its rate can never exceed the largest local rate at that station. In
+/// attached similar flows it stays well below it (the band moves to lower frequencies as the
+/// layer thickens; the envelope there matches fixed-frequency N within 8.5 %, test above). In a
+/// bubble the layer hardly thickens and the largest local rate is what the waves see.
+///
+/// Measured (envelope / largest local rate, both in 1/θ): H 2.80 0.0053 / 0.0096 (0.55); H 3.48
+/// 0.0196 / 0.0273 (0.72); reversed branch H 4.56 0.0337 / 0.0436 (0.77), H 5.53 0.0413 /
+/// 0.0499 (0.83), H 6.75 0.0502 / 0.0528 (0.95), H 8.20 0.0612 / 0.0529 (1.16). Theory's rate
+/// levels off near 0.053/θ above H ≈ 6 while the correlation keeps rising with H, so above
+/// H ≈ 7 the correlation amplifies faster than any single wave can (16 % at H 8.2; the E387
+/// bubbles transition at H 7.6–8.5). The checks guard these levels: the envelope below the
+/// local maximum up to H 6.75 and at most 20 % above it at H 8.2 (no published tolerance;
+/// 40 collocation intervals, the same to three digits with 50 and 80).
+#[test]
+fn envelope_rate_against_spatial_stability_on_reversed_flow_profiles() {
+    let grid = Grid::boundary_layer(40, 4.0, 60.0);
+    let re_theta = 300.0;
+    for (beta, branch) in [
+        (-0.1, Branch::Attached),
+        (-0.19, Branch::Attached),
+        (-0.195, Branch::Reversed),
+        (-0.18, Branch::Reversed),
+        (-0.16, Branch::Reversed),
+        (-0.14, Branch::Reversed),
+    ] {
+        let h = falkner_skan::solve(beta, branch)
+            .expect("Falkner-Skan solution")
+            .shape_factor;
+        let profile = SimilarityProfile::new(beta, branch, &grid);
+        let theory = largest_growth_rate(&profile, &grid, re_theta);
+        let envelope = transition::amplification_rate(h, 1.0, re_theta);
+        println!(
+            "H {h:.2} ({branch:?}): envelope {envelope:.4}/theta, largest local rate \
+             {theory:.4}/theta, ratio {:.2}",
+            envelope / theory
+        );
+        if h < 7.0 {
+            assert!(envelope < theory, "H {h:.2}");
+        } else {
+            assert!(envelope <= 1.2 * theory, "H {h:.2}");
+        }
+    }
+}
+
+/// e^N with fixed frequencies and spatial growth rates along the coupled E387 solution at 4°,
+/// Re 2e5 (a bubble from x/c 0.42 to 0.65 with transition at 0.565, N_crit 9), on the
+/// Falkner–Skan profile with each station's shape factor and momentum thickness: the profile
+/// family the envelope correlation itself assumes, so this isolates the correlation (the attached
+/// part ahead of separation is checked on true profiles in the tests above; the separated
+/// profiles have no reference here).
+///
+/// Measured: linear theory reaches N = 9 at x/c 0.542, the coupled solution's envelope at 0.565,
+/// 0.023 c later: theory leads by 0.7 at the separation (3.85 against 3.17 at x/c 0.430) and
+/// gains 5.25 against the envelope's 4.71 from there to x/c 0.544. The same computation at 0°,
+/// 2° and 6° (not repeated here, 35 s each) puts N = 9 0.023, 0.017 and 0.038 c ahead of the
+/// model's transition. A faithful rate would shorten these bubbles slightly (the model's
+/// reattachment is 0.025–0.038 c behind the oil flow at 0–4°) and, by last session's levers,
+/// lower their drag. The check guards the level: theory ahead, by at most 0.04 c.
+#[test]
+fn e387_bubble_amplification_against_spatial_stability() {
+    let reynolds = 2.0e5;
+    let upper = e387_upper_surface(4.0, reynolds, CRITICAL_N);
+    let transition_x = upper.transition_x_over_c.expect("natural transition");
+    let laminar = laminar_stations(&upper);
+    let grid = Grid::boundary_layer(40, 4.0, 60.0);
+    // Local frequencies ω θ/ue over the band these profiles amplify (ratio 1.27 per step).
+    let local: Vec<f64> = (0..16).map(|k| 0.004 * 1.27f64.powi(k)).collect();
+    // Per station: arc length, x/c and (physical frequency, rate per unit chord) over `local`.
+    let mut stations = Vec::new();
+    for &(s, x, st) in &laminar {
+        let (h, theta, ue) = (st.shape_factor, st.momentum_thickness, st.edge_velocity);
+        let re_theta = ue * theta * reynolds;
+        // Below Re_θ 80 no wave grows (Blasius: Re_θ ≈ 200) and the filter lets through
+        // collocation modes of the thin layer near the stagnation point.
+        if re_theta < 80.0 {
+            continue;
+        }
+        let profile = SimilarityProfile::with_shape_factor(h, &grid);
+        let rates: Vec<(f64, Option<f64>)> = local
+            .iter()
+            .map(|&w| {
+                let rate = profile.growth_rate(&grid, w, re_theta);
+                (w * ue / theta, rate.map(|r| r / theta))
+            })
+            .collect();
+        stations.push((s, x, rates));
+    }
+    let low = stations
+        .iter()
+        .flat_map(|t| t.2.iter().map(|r| r.0))
+        .fold(f64::MAX, f64::min);
+    let high = stations
+        .iter()
+        .flat_map(|t| t.2.iter().map(|r| r.0))
+        .fold(0.0, f64::max);
+    let count = ((high / low).ln() / 1.04f64.ln()).ceil() as i32 + 1;
+    let frequencies: Vec<f64> = (0..count).map(|k| low * 1.04f64.powi(k)).collect();
+    let mut n = vec![0.0; frequencies.len()];
+    let mut rate_before: Vec<Option<f64>> = vec![None; frequencies.len()];
+    let (mut s_before, mut x_before, mut n_max_before) = (0.0, 0.0, 0.0);
+    let mut x_nine = None;
+    for (s, x, rates) in &stations {
+        for (i, &f) in frequencies.iter().enumerate() {
+            let rate = rates
+                .windows(2)
+                .filter_map(|w| Some(((w[0].0, w[0].1?), (w[1].0, w[1].1?))))
+                .find(|(a, b)| (a.0 - f) * (b.0 - f) <= 0.0)
+                .map(|(a, b)| a.1 + (f - a.0) / (b.0 - a.0) * (b.1 - a.1));
+            match (rate, rate_before[i]) {
+                (Some(r), Some(before)) => {
+                    n[i] += 0.5 * (r + before) * (s - s_before);
+                    rate_before[i] = Some(r);
+                }
+                (Some(r), None) if r > 0.0 => rate_before[i] = Some(r),
+                _ => {}
+            }
+        }
+        let n_max = n.iter().copied().fold(0.0, f64::max);
+        if x_nine.is_none() && n_max >= 9.0 {
+            x_nine =
+                Some(x_before + (9.0 - n_max_before) / (n_max - n_max_before) * (x - x_before));
+        }
+        (s_before, x_before, n_max_before) = (*s, *x, n_max);
+    }
+    let x_nine = x_nine.expect("theory reaches N = 9 before the model's transition");
+    println!(
+        "E387 4 deg, Re 2e5: linear theory N = 9 at x/c {x_nine:.3}, model transition at \
+         {transition_x:.3}"
+    );
+    assert!(x_nine < transition_x && transition_x - x_nine <= 0.04);
 }
