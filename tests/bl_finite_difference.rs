@@ -1179,7 +1179,8 @@ fn envelope_rate_against_spatial_stability_on_reversed_flow_profiles() {
 /// 8.3: then the reattachment at Re 2e5 moves to within 0.024 c of the oil flow at 0°–5°
 /// (0.741, 0.694, 0.631, 0.584 against 0.74, 0.67, 0.62, 0.59; 0.506 against 0.55 at 6°), but cd
 /// falls further (33 of the 40 UIUC points within 10 %, against 36 at N 9): the model's
-/// mid-range drag deficit does not come from the transition in the bubble. The check guards
+/// mid-range drag deficit does not come from the transition in the bubble (see the README's
+/// cautions for where else it may lie). The check guards
 /// the level: theory ahead, by at most 0.04 c.
 #[test]
 fn e387_bubble_amplification_against_spatial_stability() {
