@@ -526,14 +526,29 @@ fn orr_sommerfeld(grid: &Grid, u: &[f64], u_second: &[f64], alpha: f64, re: f64)
             b[(i, j)] = C::from(laplace);
         }
     }
+    impose_boundary_conditions(&mut a, &mut b, grid, 0);
+    finite_eigenvalues(&a, &b, C::from(0.3))
+}
+
+/// Replaces the equation rows at both ends of the row block starting at `first_row` with
+/// φ = φ′ = 0 at the wall and at the outer edge, acting on the first n unknowns (φ).
+fn impose_boundary_conditions(
+    a: &mut DMatrix<C>,
+    b: &mut DMatrix<C>,
+    grid: &Grid,
+    first_row: usize,
+) {
+    let n = grid.y.len();
     for (row, node, slope) in [
         (0, 0, false),
         (1, 0, true),
         (n - 1, n - 1, false),
         (n - 2, n - 1, true),
     ] {
+        let row = first_row + row;
+        a.row_mut(row).fill(C::from(0.0));
+        b.row_mut(row).fill(C::from(0.0));
         for j in 0..n {
-            b[(row, j)] = C::from(0.0);
             a[(row, j)] = C::from(if slope {
                 grid.d1[(node, j)]
             } else if j == node {
@@ -543,10 +558,14 @@ fn orr_sommerfeld(grid: &Grid, u: &[f64], u_second: &[f64], alpha: f64, re: f64)
             });
         }
     }
-    let shift = C::from(0.3);
-    let inverse = (&a - &b * shift)
+}
+
+/// Finite eigenvalues λ of A z = λ B z by shift and invert, (A − σB)⁻¹B v = v/(λ − σ): the
+/// boundary rows of B are zero, so their infinite eigenvalues map to zero and are dropped.
+fn finite_eigenvalues(a: &DMatrix<C>, b: &DMatrix<C>, shift: C) -> Vec<C> {
+    let inverse = (a - b * shift)
         .lu()
-        .solve(&b)
+        .solve(b)
         .expect("shifted Orr-Sommerfeld operator is regular");
     inverse
         .eigenvalues()
@@ -953,38 +972,8 @@ fn orr_sommerfeld_spatial(grid: &Grid, u: &[f64], u_second: &[f64], omega: f64, 
             b[(last + i, 3 * n + j)] = i_re * identity;
         }
     }
-    for (row, node, slope) in [
-        (0, 0, false),
-        (1, 0, true),
-        (n - 1, n - 1, false),
-        (n - 2, n - 1, true),
-    ] {
-        for j in 0..4 * n {
-            b[(last + row, j)] = C::from(0.0);
-            a[(last + row, j)] = C::from(0.0);
-        }
-        for j in 0..n {
-            a[(last + row, j)] = C::from(if slope {
-                grid.d1[(node, j)]
-            } else if j == node {
-                1.0
-            } else {
-                0.0
-            });
-        }
-    }
-    let shift = C::from(0.2);
-    let inverse = (&a - &b * shift)
-        .lu()
-        .solve(&b)
-        .expect("shifted spatial Orr-Sommerfeld operator is regular");
-    inverse
-        .eigenvalues()
-        .expect("eigenvalues of a complex matrix")
-        .iter()
-        .filter(|mu| mu.norm() > 1e-8)
-        .map(|mu| shift + C::from(1.0) / mu)
-        .collect()
+    impose_boundary_conditions(&mut a, &mut b, grid, last);
+    finite_eigenvalues(&a, &b, C::from(0.2))
 }
 
 /// The downstream-travelling wave with the largest spatial growth among the spatial eigenvalues
