@@ -1115,8 +1115,8 @@ fn largest_growth_rate(profile: &SimilarityProfile, grid: &Grid, re_theta: f64) 
 /// bubble the layer hardly thickens and the largest local rate is what the waves see.
 ///
 /// Measured (envelope / largest local rate, both in 1/θ): H 2.80 0.0053 / 0.0096 (0.55); H 3.48
-/// 0.0196 / 0.0273 (0.72); reversed branch H 4.56 0.0337 / 0.0436 (0.77), H 5.53 0.0413 /
-/// 0.0499 (0.83), H 6.75 0.0502 / 0.0528 (0.95), H 8.20 0.0612 / 0.0529 (1.16). Theory's rate
+/// 0.0196 / 0.0273 (0.72); reversed branch H 4.56 0.0337 / 0.0437 (0.77), H 5.53 0.0413 /
+/// 0.0499 (0.83), H 6.75 0.0502 / 0.0529 (0.95), H 8.20 0.0612 / 0.0530 (1.16). Theory's rate
 /// levels off near 0.053/θ above H ≈ 6 while the correlation keeps rising with H, so above
 /// H ≈ 7 the correlation amplifies faster than any single wave can (16 % at H 8.2; the E387
 /// bubbles transition at H 7.6–8.5). The checks guard these levels: the envelope below the
