@@ -647,11 +647,7 @@ fn fixed_frequency_n(profiles: &[Profile], reynolds: f64, grid: &Grid) -> Vec<(f
         .map(|p| 0.005 * scale(p))
         .fold(f64::MAX, f64::min);
     let high = profiles.iter().map(|p| 0.5 * scale(p)).fold(0.0, f64::max);
-    let count = ((high / low).ln() / 1.035f64.ln()).ceil() as i32 + 1;
-    let frequencies: Vec<f64> = (0..count).map(|k| low * 1.035f64.powi(k)).collect();
-    let mut n = vec![0.0; frequencies.len()];
-    let mut rate_before: Vec<Option<f64>> = vec![None; frequencies.len()];
-    let mut s_before = 0.0;
+    let mut integral = FixedFrequencies::new(low, high, 1.035);
     let mut out = Vec::new();
     for p in profiles {
         let re = p.edge_velocity * p.length * reynolds;
@@ -660,7 +656,7 @@ fn fixed_frequency_n(profiles: &[Profile], reynolds: f64, grid: &Grid) -> Vec<(f
             .map(|&a| temporal_eigenvalue(grid, &p.eta, &p.u, &p.u_second, a, re).map(|c| c * a))
             .collect();
         let last = alphas.len() - 1;
-        // (ω_r, −α_i) where the mode and both neighbours exist.
+        // (physical ω_r, −α_i per unit length) where the mode and both neighbours exist.
         let spatial: Vec<Option<(f64, f64)>> = (0..=last)
             .map(|k| {
                 let (k0, k1) = (k.saturating_sub(1), (k + 1).min(last));
@@ -670,30 +666,62 @@ fn fixed_frequency_n(profiles: &[Profile], reynolds: f64, grid: &Grid) -> Vec<(f
                 // Schlichting waves travel at a fraction of the edge speed.
                 (MIN_GROUP_VELOCITY..1.0)
                     .contains(&group_velocity)
-                    .then_some((w.re, w.im / group_velocity))
+                    .then_some((
+                        w.re * p.edge_velocity / p.length,
+                        w.im / group_velocity / p.length,
+                    ))
             })
             .collect();
-        for (i, &frequency) in frequencies.iter().enumerate() {
-            let local = frequency * p.length / p.edge_velocity;
-            let rate = spatial
+        out.push((p.s, integral.advance(p.s, &spatial)));
+    }
+    out
+}
+
+/// N of a set of fixed physical frequencies (log-spaced from `low` to `high` with the given
+/// ratio), integrated along s by the trapezoidal rule from where each frequency first amplifies;
+/// the growth rate of a frequency at a station is interpolated linearly in ω between the
+/// station's tabulated (ω, rate) pairs.
+struct FixedFrequencies {
+    frequencies: Vec<f64>,
+    n: Vec<f64>,
+    rate_before: Vec<Option<f64>>,
+    s_before: f64,
+}
+
+impl FixedFrequencies {
+    fn new(low: f64, high: f64, ratio: f64) -> Self {
+        let count = ((high / low).ln() / ratio.ln()).ceil() as i32 + 1;
+        let frequencies: Vec<f64> = (0..count).map(|k| low * ratio.powi(k)).collect();
+        let count = frequencies.len();
+        FixedFrequencies {
+            frequencies,
+            n: vec![0.0; count],
+            rate_before: vec![None; count],
+            s_before: 0.0,
+        }
+    }
+
+    /// Moves to the station at arc length `s` with its (ω, rate) table (`None` where no wave
+    /// was found) and returns the largest N there.
+    fn advance(&mut self, s: f64, rates: &[Option<(f64, f64)>]) -> f64 {
+        for (i, &f) in self.frequencies.iter().enumerate() {
+            let rate = rates
                 .windows(2)
                 .filter_map(|w| Some((w[0]?, w[1]?)))
-                .find(|(a, b)| (a.0 - local) * (b.0 - local) <= 0.0)
-                .map(|(a, b)| a.1 + (local - a.0) / (b.0 - a.0) * (b.1 - a.1))
-                .map(|r| r / p.length);
-            match (rate, rate_before[i]) {
+                .find(|(a, b)| (a.0 - f) * (b.0 - f) <= 0.0)
+                .map(|(a, b)| a.1 + (f - a.0) / (b.0 - a.0) * (b.1 - a.1));
+            match (rate, self.rate_before[i]) {
                 (Some(r), Some(before)) => {
-                    n[i] += 0.5 * (r + before) * (p.s - s_before);
-                    rate_before[i] = Some(r);
+                    self.n[i] += 0.5 * (r + before) * (s - self.s_before);
+                    self.rate_before[i] = Some(r);
                 }
-                (Some(r), None) if r > 0.0 => rate_before[i] = Some(r),
+                (Some(r), None) if r > 0.0 => self.rate_before[i] = Some(r),
                 _ => {}
             }
         }
-        s_before = p.s;
-        out.push((p.s, n.iter().copied().fold(0.0, f64::max)));
+        self.s_before = s;
+        self.n.iter().copied().fold(0.0, f64::max)
     }
-    out
 }
 
 /// The Orr–Sommerfeld solver against published eigenvalues.
@@ -1191,51 +1219,30 @@ fn e387_bubble_amplification_against_spatial_stability() {
             continue;
         }
         let profile = SimilarityProfile::with_shape_factor(h, &grid);
-        let rates: Vec<(f64, Option<f64>)> = local
+        let rates: Vec<Option<(f64, f64)>> = local
             .iter()
             .map(|&w| {
-                let rate = profile.growth_rate(&grid, w, re_theta);
-                (w * ue / theta, rate.map(|r| r / theta))
+                let rate = profile.growth_rate(&grid, w, re_theta)?;
+                Some((w * ue / theta, rate / theta))
             })
             .collect();
         stations.push((s, x, rates));
     }
-    let low = stations
+    let band = stations
         .iter()
-        .flat_map(|t| t.2.iter().map(|r| r.0))
-        .fold(f64::MAX, f64::min);
-    let high = stations
-        .iter()
-        .flat_map(|t| t.2.iter().map(|r| r.0))
-        .fold(0.0, f64::max);
-    let count = ((high / low).ln() / 1.04f64.ln()).ceil() as i32 + 1;
-    let frequencies: Vec<f64> = (0..count).map(|k| low * 1.04f64.powi(k)).collect();
-    let mut n = vec![0.0; frequencies.len()];
-    let mut rate_before: Vec<Option<f64>> = vec![None; frequencies.len()];
-    let (mut s_before, mut x_before, mut n_max_before) = (0.0, 0.0, 0.0);
+        .flat_map(|t| t.2.iter().flatten().map(|r| r.0));
+    let low = band.clone().fold(f64::MAX, f64::min);
+    let high = band.fold(0.0, f64::max);
+    let mut integral = FixedFrequencies::new(low, high, 1.04);
+    let (mut x_before, mut n_max_before) = (0.0, 0.0);
     let mut x_nine = None;
     for (s, x, rates) in &stations {
-        for (i, &f) in frequencies.iter().enumerate() {
-            let rate = rates
-                .windows(2)
-                .filter_map(|w| Some(((w[0].0, w[0].1?), (w[1].0, w[1].1?))))
-                .find(|(a, b)| (a.0 - f) * (b.0 - f) <= 0.0)
-                .map(|(a, b)| a.1 + (f - a.0) / (b.0 - a.0) * (b.1 - a.1));
-            match (rate, rate_before[i]) {
-                (Some(r), Some(before)) => {
-                    n[i] += 0.5 * (r + before) * (s - s_before);
-                    rate_before[i] = Some(r);
-                }
-                (Some(r), None) if r > 0.0 => rate_before[i] = Some(r),
-                _ => {}
-            }
-        }
-        let n_max = n.iter().copied().fold(0.0, f64::max);
+        let n_max = integral.advance(*s, rates);
         if x_nine.is_none() && n_max >= 9.0 {
             x_nine =
                 Some(x_before + (9.0 - n_max_before) / (n_max - n_max_before) * (x - x_before));
         }
-        (s_before, x_before, n_max_before) = (*s, *x, n_max);
+        (x_before, n_max_before) = (*x, n_max);
     }
     let x_nine = x_nine.expect("theory reaches N = 9 before the model's transition");
     println!(
